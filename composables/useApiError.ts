@@ -1,0 +1,24 @@
+import type { FetchError } from 'ofetch'
+
+interface ApiErrorData { message?: string, data?: { fields?: Record<string, string>, reasons?: { code: string, message: string }[] } }
+
+/**
+ * Turns a failed $fetch into what a form shows: a message, field errors (400) and refusal
+ * reasons (422). `setErrors` is vee-validate's, so server field messages land beside the fields.
+ */
+export function useApiError() {
+  const message = ref<string | null>(null)
+  function handle(error: unknown, setErrors?: (fields: Record<string, string>) => void) {
+    const body = (error as FetchError<ApiErrorData>)?.data
+    const fields = body?.data?.fields
+    if (fields && setErrors) setErrors(fields)
+    const reasons = body?.data?.reasons
+    message.value = reasons?.length
+      ? reasons.map(r => r.message).join(' ')
+      : body?.message ?? (error as Error)?.message ?? 'Something went wrong. Try again.'
+  }
+  function clear() {
+    message.value = null
+  }
+  return { message, handle, clear }
+}

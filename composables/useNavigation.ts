@@ -1,0 +1,19 @@
+import type { Capability } from '~~/shared/utils/permissions'
+
+export interface NavItem { to: string, label: string, can?: Capability, testId: string }
+
+/** The main navigation: every member sees the first group; the rest follow the capability table. */
+export const NAV_ITEMS: NavItem[] = [
+  { to: '/', label: 'Dashboard', testId: 'nav-dashboard' },
+  { to: '/standing', label: 'My standing', testId: 'nav-standing' },
+  { to: '/waiver', label: 'Waiver', testId: 'nav-waiver' },
+  { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
+  { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
+  { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },
+]
+
+/** The navigation items the signed-in member may use. */
+export function useNavigation() {
+  const session = useSessionStore()
+  return computed(() => NAV_ITEMS.filter(item => !item.can || session.can(item.can)))
+}

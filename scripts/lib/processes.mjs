@@ -1,0 +1,76 @@
+// Child processes started by the scripts and the tests: spawned, awaited, and always stopped.
+import { spawn } from 'node:child_process'
+import { mkdirSync } from 'node:fs'
+import { dirname, join } from 'node:path'
+import { fileURLToPath } from 'node:url'
+
+const projectRoot = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
+
+/** Polls `url` until it answers (any HTTP status) or `timeoutMs` passes. */
+export async function waitForHttp(url, timeoutMs = 60_000, okOnly = false) {
+  const deadline = Date.now() + timeoutMs
+  let lastError
+  while (Date.now() < deadline) {
+    try {
+      const res = await fetch(url)
+      if (!okOnly || res.ok) return res
+    }
+    catch (error) { lastError = error }
+    await new Promise(r => setTimeout(r, 250))
+  }
+  throw new Error(`${url} did not answer within ${timeoutMs} ms (${lastError?.message ?? 'no answer'})`)
+}
+
+/**
+ * Spawns a long-running child; returns it with a stop() that resolves when it has exited.
+ * @returns {import('node:child_process').ChildProcess & { stop: () => Promise<void>, recentStderr: () => string, label: string }}
+ */
+export function startProcess(command, args, { env = {}, cwd, name, quiet = false } = {}) {
+  const child = spawn(command, args, {
+    cwd,
+    env: { ...process.env, ...env },
+    stdio: quiet ? ['ignore', 'ignore', 'pipe'] : ['ignore', 'inherit', 'inherit'],
+  })
+  let stderr = ''
+  child.stderr?.on('data', (d) => {
+    stderr = (stderr + d).slice(-4000)
+  })
+  const exited = new Promise(resolve => child.once('exit', resolve))
+  child.stop = async () => {
+    if (child.exitCode === null && child.signalCode === null) child.kill('SIGTERM')
+    const timer = setTimeout(() => child.kill('SIGKILL'), 5000)
+    await exited
+    clearTimeout(timer)
+  }
+  child.label = name ?? command
+  child.recentStderr = () => stderr
+  return child
+}
+
+/** Starts the maildev mail catcher (SMTP and web/REST on 127.0.0.1), keeping mail in `mailDir`. */
+export async function startMailCatcher({ smtpPort, webPort, mailDir, quiet = true }) {
+  mkdirSync(mailDir, { recursive: true })
+  const bin = join(projectRoot, 'node_modules/maildev/dist/bin/maildev.js')
+  const child = startProcess(process.execPath, [bin, '--ip', '127.0.0.1', '--web-ip', '127.0.0.1',
+    '-s', String(smtpPort), '-w', String(webPort), '--mail-directory', mailDir, '--silent'], { name: 'maildev', quiet })
+  await waitForHttp(`http://127.0.0.1:${webPort}/api/email`, 30_000, true)
+  return child
+}
+
+/** Starts the built production server (.output) on `port` with `env`; waits until /api/health answers. */
+export async function startAppServer({ root, port, env, quiet = true }) {
+  const child = startProcess(process.execPath, [join(root, '.output/server/index.mjs')], {
+    cwd: root,
+    env: { ...env, PORT: String(port), HOST: '127.0.0.1', NITRO_PORT: String(port), NITRO_HOST: '127.0.0.1' },
+    name: 'server',
+    quiet,
+  })
+  try {
+    await waitForHttp(`http://127.0.0.1:${port}/api/health`, 60_000)
+  }
+  catch (error) {
+    await child.stop()
+    throw new Error(`${error.message}\n${child.recentStderr()}`, { cause: error })
+  }
+  return child
+}

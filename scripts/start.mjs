@@ -1,0 +1,95 @@
+#!/usr/bin/env node
+// `npm start` (production build) and `npm run dev` (hot reload): installs what is missing, starts a
+// private PostgreSQL and the mail catcher, migrates and seeds, then serves Hoopwise. Ctrl-C stops all.
+import { execFileSync, spawnSync } from 'node:child_process'
+import { existsSync } from 'node:fs'
+import { join } from 'node:path'
+import { ROOT, DEV, loadDotEnv, ensureDir } from './lib/config.mjs'
+
+const dev = process.argv.includes('--dev')
+
+if (!existsSync(join(ROOT, 'node_modules', '.package-lock.json'))) {
+  console.log('• installing dependencies (npm ci)…')
+  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: ROOT, stdio: 'inherit' })
+}
+
+const { startPostgres } = await import('./lib/postgres.mjs')
+const { startMailCatcher, startProcess, waitForHttp } = await import('./lib/processes.mjs')
+const { prepareDatabase } = await import('./lib/database.mjs')
+
+const fileEnv = loadDotEnv()
+const publicUrl = process.env.NUXT_PUBLIC_URL ?? fileEnv.NUXT_PUBLIC_URL ?? `http://localhost:${DEV.appPort}`
+const useRealSmtp = Boolean(process.env.NUXT_SMTP_HOST ?? fileEnv.NUXT_SMTP_HOST)
+
+const stoppers = []
+let stopping = false
+async function stopAll(code = 0) {
+  if (stopping) return
+  stopping = true
+  console.log('\n• stopping…')
+  for (const stop of stoppers.reverse()) {
+    try {
+      await stop()
+    }
+    catch (error) {
+      console.error(error.message)
+    }
+  }
+  process.exit(code)
+}
+process.on('SIGINT', () => stopAll(0))
+process.on('SIGTERM', () => stopAll(0))
+
+try {
+  ensureDir(join(ROOT, '.local'))
+  const pg = startPostgres({ dir: DEV.pgDir, port: DEV.pgPort, database: DEV.database })
+  stoppers.push(pg.stop)
+  console.log(`• PostgreSQL on 127.0.0.1:${DEV.pgPort}`)
+
+  let mailNote = 'real SMTP from the environment'
+  if (!useRealSmtp) {
+    const mail = await startMailCatcher({ smtpPort: DEV.smtpPort, webPort: DEV.mailWebPort, mailDir: DEV.mailDir })
+    stoppers.push(mail.stop)
+    mailNote = `mail catcher: http://127.0.0.1:${DEV.mailWebPort}`
+  }
+
+  const databaseUrl = process.env.NUXT_DATABASE_URL ?? pg.url
+  await prepareDatabase({ databaseUrl, publicUrl })
+
+  const env = {
+    ...fileEnv,
+    NUXT_DATABASE_URL: databaseUrl,
+    NUXT_PUBLIC_URL: publicUrl,
+    ...(useRealSmtp ? {} : { NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(DEV.smtpPort) }),
+    PORT: String(DEV.appPort),
+  }
+  let server
+  if (dev) {
+    server = startProcess(join(ROOT, 'node_modules/.bin/nuxt'), ['dev', '--port', String(DEV.appPort)], { cwd: ROOT, env, name: 'nuxt dev' })
+  }
+  else {
+    console.log('• building the production server (nuxt build)…')
+    const build = spawnSync(join(ROOT, 'node_modules/.bin/nuxt'), ['build'], { cwd: ROOT, stdio: 'inherit', env: { ...process.env, ...env } })
+    if (build.status !== 0) throw new Error('nuxt build failed')
+    server = startProcess(process.execPath, [join(ROOT, '.output/server/index.mjs')], { cwd: ROOT, env, name: 'server' })
+  }
+  stoppers.push(() => server.stop())
+  server.once('exit', code => stopAll(code ?? 0))
+  await waitForHttp(`http://127.0.0.1:${DEV.appPort}/api/health`, 180_000)
+
+  console.log(`
+  Hoopwise is running at ${publicUrl.replace(/\/$/, '')}/   (${mailNote})
+
+  Demo sign-ins (password: hoopwise-demo)
+    member@hoopwise.example       member
+    instructor@hoopwise.example   member, instructor
+    safety@hoopwise.example       member, instructor, safety officer
+    admin@hoopwise.example        member, admin
+
+  Ctrl-C stops the server, the mail catcher and PostgreSQL; the data is kept in .local/.
+`)
+}
+catch (error) {
+  console.error(`\n✖ ${error.message}`)
+  await stopAll(1)
+}

@@ -1,0 +1,76 @@
+#!/usr/bin/env node
+// `npm test`: the same set-up as `npm start` on its own cluster, database and ports, then lint,
+// type-check, unit, build, API and browser tests. Exits non-zero on any failure; stops what it started.
+import { execFileSync, spawnSync } from 'node:child_process'
+import { existsSync } from 'node:fs'
+import { join } from 'node:path'
+import { userInfo } from 'node:os'
+import { ROOT, TEST, ensureDir } from './lib/config.mjs'
+
+const CHROMIUM = '/usr/bin/chromium'
+const only = process.argv.slice(2) // e.g. `npm test -- api` runs one stage after the set-up
+
+function run(label, command, args, env = {}) {
+  console.log(`\n▶ ${label}`)
+  const result = spawnSync(command, args, { cwd: ROOT, stdio: 'inherit', env: { ...process.env, ...env } })
+  if (result.status !== 0) throw new Error(`${label} failed (exit ${result.status ?? result.signal})`)
+}
+
+if (!existsSync(join(ROOT, 'node_modules', '.package-lock.json'))) {
+  console.log('• installing dependencies (npm ci)…')
+  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: ROOT, stdio: 'inherit' })
+}
+if (!existsSync(CHROMIUM)) {
+  if (userInfo().uid !== 0) {
+    console.error(`✖ Chromium is missing for the browser tests. Install it with: sudo apt-get install -y chromium`)
+    process.exit(1)
+  }
+  console.log('• installing Chromium (Debian package chromium)…')
+  execFileSync('apt-get', ['update', '-qq'], { stdio: 'inherit' })
+  execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } })
+}
+
+const { startPostgres, recreateDatabase } = await import('./lib/postgres.mjs')
+const { startMailCatcher } = await import('./lib/processes.mjs')
+const { prepareDatabase } = await import('./lib/database.mjs')
+
+const stoppers = []
+let exitCode = 0
+const stages = {
+  prepare: () => run('generate types (nuxt prepare)', 'npx', ['nuxt', 'prepare']),
+  lint: () => run('lint (eslint)', 'npx', ['eslint', '.']),
+  typecheck: () => run('type-check (vue-tsc)', 'npx', ['vue-tsc', '-b', '--noEmit']),
+  unit: () => run('unit tests', 'npx', ['vitest', 'run', '--project', 'unit']),
+  build: () => run('build (nuxt build)', 'npx', ['nuxt', 'build']),
+  api: () => run('API tests', 'npx', ['vitest', 'run', '--project', 'api']),
+  e2e: () => run('browser tests', 'npx', ['vitest', 'run', '--project', 'e2e']),
+}
+try {
+  ensureDir(join(ROOT, '.local'))
+  const pg = startPostgres({ dir: TEST.pgDir, port: TEST.pgPort, database: 'postgres', fast: true })
+  stoppers.push(pg.stop)
+  recreateDatabase({ port: TEST.pgPort, database: TEST.database })
+  const databaseUrl = `postgres://hoopwise@127.0.0.1:${TEST.pgPort}/${TEST.database}`
+  await prepareDatabase({ databaseUrl, publicUrl: `http://127.0.0.1:${TEST.appPort}` })
+  const mail = await startMailCatcher({ smtpPort: TEST.smtpPort, webPort: TEST.mailWebPort, mailDir: TEST.mailDir })
+  stoppers.push(() => mail.stop())
+
+  for (const [name, stage] of Object.entries(stages)) {
+    if (only.length && !only.includes(name)) continue
+    stage()
+  }
+  console.log('\n✔ every stage passed')
+}
+catch (error) {
+  console.error(`\n✖ ${error.message}`)
+  exitCode = 1
+}
+finally {
+  for (const stop of stoppers.reverse()) {
+    try {
+      await stop()
+    }
+    catch { /* already stopped */ }
+  }
+}
+process.exit(exitCode)

@@ -1,0 +1,83 @@
+/**
+ * Every kind of e-mail Hoopwise sends, in one place: how it renders and whether a member may opt
+ * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
+ */
+export interface NoticeVars {
+  clubName: string
+  memberName: string
+  /** The club's public address, without a trailing slash; every link is built from it. */
+  baseUrl: string
+  /** Link for the action (verify, reset, consent …), when the kind has one. */
+  actionUrl?: string
+  /** One-click opt-out link, filled in by the queue for optional kinds. */
+  optOutUrl?: string
+  [key: string]: string | number | undefined
+}
+
+export interface RenderedNotice { subject: string, text: string, lines: string[], action?: { label: string, url: string } }
+
+export interface NoticeKind {
+  /** Optional kinds carry a one-click opt-out link; the rest cannot be switched off. */
+  optional: boolean
+  /** A short label for the outbox and the profile's notice settings. */
+  label: string
+  render: (vars: NoticeVars) => RenderedNotice
+}
+
+function notice(subject: string, lines: string[], action?: { label: string, url?: string }): RenderedNotice {
+  const act = action?.url ? { label: action.label, url: action.url } : undefined
+  const text = [...lines, ...(act ? ['', `${act.label}: ${act.url}`] : [])].join('\n')
+  return { subject, text, lines, action: act }
+}
+
+export const NOTICE_KINDS = {
+  email_verification: {
+    optional: false,
+    label: 'E-mail verification',
+    render: v => notice(`Confirm your e-mail for ${v.clubName}`, [
+      `Hello ${v.memberName},`,
+      `Please confirm this e-mail address for your ${v.clubName} account. The link works once and expires in 48 hours.`,
+    ], { label: 'Confirm my e-mail', url: v.actionUrl }),
+  },
+  password_reset: {
+    optional: false,
+    label: 'Password reset',
+    render: v => notice(`Reset your ${v.clubName} password`, [
+      `Hello ${v.memberName},`,
+      'Someone (hopefully you) asked to reset your password. The link works once and expires in 1 hour.',
+      'If it was not you, ignore this message: your password stays as it is.',
+    ], { label: 'Choose a new password', url: v.actionUrl }),
+  },
+  guardian_consent: {
+    optional: false,
+    label: 'Guardian consent',
+    render: v => notice(`${v.memberName} asks for your consent to join ${v.clubName}`, [
+      `Hello ${v.guardianName ?? ''},`.replace(' ,', ','),
+      `${v.memberName} has signed up to ${v.clubName}, a water rocketry club, and named you as their parent or guardian.`,
+      'Members under 18 train in composite handling and pressure safety before they may fill a rocket, and only under supervision.',
+      'If you agree to their membership, confirm with the link below (it works once and expires in 14 days).',
+    ], { label: 'I give my consent', url: v.actionUrl }),
+  },
+  signup_approved: {
+    optional: false,
+    label: 'Sign-up approved',
+    render: v => notice(`Welcome to ${v.clubName}`, [
+      `Hello ${v.memberName},`,
+      `Your sign-up to ${v.clubName} has been approved. Pay your first dues and accept the club's risk waiver to take part.`,
+    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
+  dues_reminder: {
+    optional: true,
+    label: 'Dues renewal reminder',
+    render: v => notice(`Your ${v.clubName} dues run out on ${v.paidThrough}`, [
+      `Hello ${v.memberName},`,
+      `Your membership is paid through ${v.paidThrough}. Renew before then to keep training, booking and filling without a gap.`,
+    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
+} satisfies Record<string, NoticeKind>
+
+export type NoticeKindName = keyof typeof NOTICE_KINDS
+
+export function isNoticeKind(kind: string): kind is NoticeKindName {
+  return Object.hasOwn(NOTICE_KINDS, kind)
+}

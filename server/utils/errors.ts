@@ -1,0 +1,57 @@
+import type { ZodError } from 'zod'
+import { UniqueConstraintError, ForeignKeyConstraintError, ValidationError, DatabaseError } from 'sequelize'
+
+export interface Reason { code: string, message: string }
+
+/** 422: a business rule refuses. Body `{ reasons: [{ code, message }] }` as the conventions say. */
+export function refuse(reasons: Reason[] | Reason): never {
+  const list = Array.isArray(reasons) ? reasons : [reasons]
+  throw createError({
+    statusCode: 422,
+    statusMessage: 'Refused',
+    message: list.map(r => r.message).join(' '),
+    data: { reasons: list },
+  })
+}
+
+/** 404: missing, or not yours (the two are never told apart). */
+export function notFound(what = 'Not found'): never {
+  throw createError({ statusCode: 404, statusMessage: 'Not Found', message: what })
+}
+
+/** 409: conflict with another record. */
+export function conflict(message: string): never {
+  throw createError({ statusCode: 409, statusMessage: 'Conflict', message })
+}
+
+/** 400 with field messages, from a zod error. */
+export function badInput(error: ZodError): never {
+  const fields: Record<string, string> = {}
+  for (const issue of error.issues) {
+    const key = issue.path.join('.') || '_'
+    fields[key] ??= issue.message
+  }
+  throw createError({
+    statusCode: 400,
+    statusMessage: 'Bad Request',
+    message: Object.entries(fields).map(([k, v]) => (k === '_' ? v : `${k}: ${v}`)).join('; '),
+    data: { fields },
+  })
+}
+
+/**
+ * Maps database constraint errors to client errors (409/422) so a request can never produce a 500
+ * by tripping a constraint; anything else is rethrown.
+ */
+export function mapDbError(error: unknown): never {
+  if (error instanceof UniqueConstraintError) conflict('That already exists.')
+  if (error instanceof ForeignKeyConstraintError) refuse({ code: 'REFERENCE_MISSING', message: 'A record it refers to does not exist.' })
+  if (error instanceof ValidationError) refuse({ code: 'INVALID_RECORD', message: error.message })
+  if (error instanceof DatabaseError) {
+    const code = (error.parent as { code?: string } | undefined)?.code
+    if (code === '23514' || code === '22001' || code === '22007' || code === '22008' || code === '22P02') {
+      refuse({ code: 'INVALID_RECORD', message: 'The database refused a value that is out of range.' })
+    }
+  }
+  throw error
+}

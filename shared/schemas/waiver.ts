@@ -1,0 +1,14 @@
+import { z } from 'zod'
+
+export const WaiverPublishSchema = z.object({
+  title: z.string().trim().min(1, 'Enter a title').max(200, 'At most 200 characters'),
+  body: z.string().trim().min(20, 'The waiver text needs at least 20 characters').max(20_000, 'At most 20 000 characters'),
+})
+export type WaiverPublish = z.infer<typeof WaiverPublishSchema>
+
+/** Accepting the current version: the member types their name and names the version they read. */
+export const WaiverAcceptSchema = z.object({
+  version: z.number().int().min(1),
+  typedName: z.string().trim().min(1, 'Type your full name').max(120, 'At most 120 characters'),
+})
+export type WaiverAccept = z.infer<typeof WaiverAcceptSchema>

@@ -1,0 +1,9 @@
+import type { SessionUser } from './session'
+
+// The session user nuxt-auth-utils carries: see shared/types/session.ts.
+declare module '#auth-utils' {
+  // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+  interface User extends SessionUser {}
+}
+
+export {}

@@ -1,0 +1,112 @@
+import type { Role } from '../utils/permissions'
+import type { MembershipStatus } from '../utils/membership-status'
+
+/** Plain objects the routes return. Never a model instance: no hashes or internal columns leak. */
+
+export interface Paged<T> {
+  items: T[]
+  page: number
+  pageSize: number
+  total: number
+}
+
+export interface MemberListItemDto {
+  id: string
+  name: string
+  email: string
+  roles: Role[]
+  status: MembershipStatus
+  paidThrough: string | null
+  joinedOn: string
+  junior: boolean
+}
+
+export interface MemberDto extends MemberListItemDto {
+  approvedAt: string | null
+  suspendedAt: string | null
+  suspendedReason: string | null
+  resignedAt: string | null
+  emailVerified: boolean
+  birthDate: string | null
+  guardianName: string | null
+  guardianEmail: string | null
+  guardianConsentAt: string | null
+  phone: string | null
+  emergencyContactName: string | null
+  emergencyContactPhone: string | null
+  unitPreference: 'bar' | 'psi'
+  waiver: WaiverStandingDto
+}
+
+export interface WaiverStandingDto {
+  currentVersion: number | null
+  acceptedVersion: number | null
+  acceptedAt: string | null
+  /** True when the member has accepted the version in force (or none is published). */
+  current: boolean
+}
+
+export interface ClubDto {
+  id: string
+  name: string
+  timeZone: string
+  units: 'bar' | 'psi'
+  graceDays: number
+}
+
+/** "My standing": everything about the signed-in member on one page. */
+export interface StandingDto {
+  member: MemberDto
+  club: ClubDto
+  today: string
+  /** Days left until paid-through (negative once passed), or null when never paid. */
+  daysToExpiry: number | null
+  /** Things the member should do, in plain sentences. */
+  attention: { code: string, message: string, to?: string }[]
+}
+
+export interface WaiverDto {
+  id: string
+  version: number
+  title: string
+  body: string
+  publishedAt: string
+  publishedByName: string | null
+}
+
+export interface NoticeDto {
+  id: string
+  kind: string
+  memberName: string
+  toEmail: string
+  subject: string
+  dueOn: string
+  status: 'queued' | 'sending' | 'sent' | 'failed' | 'skipped'
+  attempts: number
+  nextAttemptAt: string
+  lastError: string | null
+  sentAt: string | null
+  createdAt: string
+}
+
+export interface AuditEventDto {
+  id: string
+  actorName: string
+  action: string
+  subjectType: string
+  subjectId: string | null
+  before: Record<string, unknown> | null
+  after: Record<string, unknown> | null
+  reason: string | null
+  createdAt: string
+}
+
+export interface DashboardDto {
+  roles: Role[]
+  cards: { key: string, title: string, value: number | string, hint: string, to?: string, tone: 'ok' | 'attention' | 'neutral' }[]
+}
+
+/** 422 body: a business rule refused the request. */
+export interface RefusalBody {
+  reasons: { code: string, message: string }[]
+}

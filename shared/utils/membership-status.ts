@@ -1,0 +1,77 @@
+/**
+ * The membership status function: the one place that derives a member's standing from dues and the
+ * admin's actions. Everything else (server rules, screens, notices, the directory's SQL filter, which
+ * mirrors it) follows this definition.
+ *
+ * - suspended / resigned: set by an admin, and win over dues (suspended first).
+ * - pending: never paid (no paid-through date).
+ * - active: paid through today or later.
+ * - grace: paid-through date has passed by at most the club's grace days (default 30): can train,
+ *   cannot fill or book.
+ * - lapsed: past the grace period.
+ * "Today" is the calendar date in the club's time zone, never the server's.
+ */
+import { TZDate } from '@date-fns/tz'
+import { addDays, format } from 'date-fns'
+
+export const MEMBERSHIP_STATUSES = ['pending', 'active', 'grace', 'lapsed', 'suspended', 'resigned'] as const
+export type MembershipStatus = typeof MEMBERSHIP_STATUSES[number]
+
+export const MEMBERSHIP_STATUS_LABELS: Record<MembershipStatus, string> = {
+  pending: 'Pending',
+  active: 'Active',
+  grace: 'In grace',
+  lapsed: 'Lapsed',
+  suspended: 'Suspended',
+  resigned: 'Resigned',
+}
+
+export const DEFAULT_GRACE_DAYS = 30
+
+export interface MembershipStatusInput {
+  /** Calendar date (YYYY-MM-DD) the dues are paid through, or null when never paid. */
+  paidThrough: string | null
+  suspendedAt?: Date | string | null
+  resignedAt?: Date | string | null
+}
+
+/** The calendar date (YYYY-MM-DD) at `instant` in the IANA time zone `timeZone`. */
+export function dateInZone(instant: Date, timeZone: string): string {
+  return format(new TZDate(instant.getTime(), timeZone), 'yyyy-MM-dd')
+}
+
+/** `date` (YYYY-MM-DD) plus `days` calendar days, as YYYY-MM-DD. */
+export function addCalendarDays(date: string, days: number): string {
+  const [y, m, d] = date.split('-').map(Number)
+  return format(addDays(new Date(y!, m! - 1, d!), days), 'yyyy-MM-dd')
+}
+
+/** Derives the status at `now` (default: the current instant) for a club in `timeZone`. */
+export function membershipStatus(
+  input: MembershipStatusInput,
+  opts: { timeZone: string, graceDays?: number, now?: Date },
+): MembershipStatus {
+  if (input.suspendedAt) return 'suspended'
+  if (input.resignedAt) return 'resigned'
+  if (!input.paidThrough) return 'pending'
+  const today = dateInZone(opts.now ?? new Date(), opts.timeZone)
+  if (input.paidThrough >= today) return 'active'
+  const graceEnds = addCalendarDays(input.paidThrough, opts.graceDays ?? DEFAULT_GRACE_DAYS)
+  return today <= graceEnds ? 'grace' : 'lapsed'
+}
+
+/** Whether this status keeps the member's role capabilities (suspended and resigned lose them). */
+export function statusKeepsRights(status: MembershipStatus): boolean {
+  return status !== 'suspended' && status !== 'resigned'
+}
+
+/** Age in whole years on `today` (YYYY-MM-DD) for someone born on `birthDate` (YYYY-MM-DD). */
+export function ageOn(birthDate: string, today: string): number {
+  const [by, bm, bd] = birthDate.split('-').map(Number)
+  const [ty, tm, td] = today.split('-').map(Number)
+  let age = ty! - by!
+  if (tm! < bm! || (tm === bm && td! < bd!)) age -= 1
+  return age
+}
+
+export const ADULT_AGE = 18

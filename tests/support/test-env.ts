@@ -1,0 +1,36 @@
+// The services scripts/test.mjs starts for the API and browser suites, read from its environment.
+import { TEST } from '../../scripts/lib/config.mjs'
+
+export const testEnv = {
+  databaseUrl: process.env.HOOPWISE_TEST_DATABASE_URL ?? `postgres://hoopwise@127.0.0.1:${TEST.pgPort}/${TEST.database}`,
+  pgPort: TEST.pgPort,
+  smtpPort: TEST.smtpPort,
+  mailUrl: `http://127.0.0.1:${TEST.mailWebPort}`,
+  appPort: TEST.appPort,
+  baseUrl: `http://127.0.0.1:${TEST.appPort}`,
+  sessionPassword: 'test-session-password-that-is-at-least-32-chars',
+}
+
+/** The environment every test server gets; isolated servers override ports and services. */
+export function serverEnv(overrides: Record<string, string> = {}): Record<string, string> {
+  return {
+    NODE_ENV: 'production',
+    NUXT_SESSION_PASSWORD: testEnv.sessionPassword,
+    NUXT_DATABASE_URL: testEnv.databaseUrl,
+    NUXT_PUBLIC_URL: testEnv.baseUrl,
+    NUXT_SMTP_HOST: '127.0.0.1',
+    NUXT_SMTP_PORT: String(testEnv.smtpPort),
+    ...overrides,
+  }
+}
+
+export const DEMO = {
+  password: 'hoopwise-demo',
+  member: 'member@hoopwise.example',
+  instructor: 'instructor@hoopwise.example',
+  safety: 'safety@hoopwise.example',
+  admin: 'admin@hoopwise.example',
+} as const
+
+export type DemoRole = 'member' | 'instructor' | 'safety' | 'admin'
+export const DEMO_ROLES: DemoRole[] = ['member', 'instructor', 'safety', 'admin']
