@@ -38,12 +38,16 @@ export const DEV = {
 }
 
 /** The test set-up: another cluster, database and ports, so tests never touch demo data. */
+// HOOPWISE_TEST_PORT_OFFSET lets two checkouts test side by side on one machine.
+const offset = Number(process.env.HOOPWISE_TEST_PORT_OFFSET ?? 0)
 export const TEST = {
   pgDir: join(LOCAL, 'test', 'pg'),
-  pgPort: 54330,
+  pgPort: 54330 + offset,
   database: 'hoopwise_test',
-  smtpPort: 1026,
-  mailWebPort: 1081,
+  smtpPort: 1026 + offset,
+  mailWebPort: 1081 + offset,
   mailDir: join(LOCAL, 'test', 'mail'),
-  appPort: 3100,
+  appPort: 3100 + offset,
+  /** Ports from here up to +19 are for tests that start services of their own. */
+  spareBase: 3110 + offset,
 }

@@ -1,5 +1,4 @@
-import type { Transaction } from 'sequelize'
-import { Notice } from '../models'
+import { QueryTypes, type Transaction } from 'sequelize'
 import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './notice-kinds'
 import { renderNoticeHtml } from './notice-render'
 import { optOutUrl } from './notice-opt-out'
@@ -22,6 +21,7 @@ export interface EnqueueInput {
 /**
  * Queues one e-mail. The database's unique key (member, kind, subject, due date) makes this
  * idempotent: a second call — even a concurrent one — queues nothing and returns false.
+ * Call kickNoticeQueue() (services/notice-queue.ts) once the surrounding transaction has committed.
  */
 export async function enqueueNotice(input: EnqueueInput, transaction?: Transaction): Promise<boolean> {
   const kind = NOTICE_KINDS[input.kind]
@@ -31,16 +31,26 @@ export async function enqueueNotice(input: EnqueueInput, transaction?: Transacti
     optOutUrl: kind.optional ? optOutUrl(input.vars.baseUrl, input.membershipId, input.kind) : undefined,
   } as NoticeVars
   const rendered = (kind.render as (v: NoticeVars) => ReturnType<typeof kind.render>)(vars)
-  const [, created] = await Notice.findOrCreate({
-    where: { membershipId: input.membershipId, kind: input.kind, subjectKey: input.subjectKey ?? '', dueOn: input.dueOn },
-    defaults: {
+  const textBody = vars.optOutUrl ? `${rendered.text}\n\n--\nStop these e-mails: ${vars.optOutUrl}` : rendered.text
+  // ON CONFLICT DO NOTHING: a concurrent run that queues the same notice simply gets nothing back.
+  const rows = await useDb().query<{ id: string }>(`
+    INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body)
+    VALUES (:clubId, :membershipId, :kind, :subjectKey, :dueOn, :toEmail, :subject, :textBody, :htmlBody)
+    ON CONFLICT (membership_id, kind, subject_key, due_on) DO NOTHING
+    RETURNING id`, {
+    replacements: {
       clubId: input.clubId,
+      membershipId: input.membershipId,
+      kind: input.kind,
+      subjectKey: input.subjectKey ?? '',
+      dueOn: input.dueOn,
       toEmail: input.toEmail,
       subject: rendered.subject,
-      textBody: vars.optOutUrl ? `${rendered.text}\n\n--\nStop these e-mails: ${vars.optOutUrl}` : rendered.text,
+      textBody,
       htmlBody: renderNoticeHtml(rendered, vars),
     },
+    type: QueryTypes.SELECT,
     transaction,
   })
-  return created
+  return rows.length > 0
 }

@@ -1,0 +1,68 @@
+// Test data straight into the test database, with overrides. Dates are relative to today in the
+// demo club's time zone, so the tests mean the same thing whatever day they run.
+import { randomUUID } from 'node:crypto'
+import { Hash } from '@adonisjs/hash'
+import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
+import { sql } from './db'
+import { addCalendarDays, dateInZone } from '../../shared/utils/membership-status'
+import type { Role } from '../../shared/utils/permissions'
+
+export const CLUB_TIME_ZONE = 'Europe/London'
+export const FACTORY_PASSWORD = 'factory-password-123'
+
+/** Today (YYYY-MM-DD) in the demo club's time zone, optionally shifted by `days`. */
+export function clubDay(days = 0): string {
+  return addCalendarDays(dateInZone(new Date(), CLUB_TIME_ZONE), days)
+}
+
+let hashed: Promise<string> | undefined
+const passwordHash = () => (hashed ??= new Hash(new Scrypt({})).make(FACTORY_PASSWORD))
+
+export async function demoClubId(): Promise<string> {
+  const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`)
+  return club!.id
+}
+
+export interface MemberOverrides {
+  name?: string
+  email?: string
+  roles?: Role[]
+  /** Paid-through as days from today (null = never paid). Default: 180 days ahead. */
+  paidDays?: number | null
+  approved?: boolean
+  suspendedReason?: string | null
+  resigned?: boolean
+  birthDate?: string | null
+  guardianName?: string | null
+  guardianEmail?: string | null
+  guardianConsent?: boolean
+  verified?: boolean
+  acceptWaiver?: boolean
+}
+
+export interface MadeMember { userId: string, memberId: string, email: string, name: string, password: string }
+
+/** Creates an account and a membership in the demo club; unique e-mail unless given. */
+export async function makeMember(o: MemberOverrides = {}): Promise<MadeMember> {
+  const clubId = await demoClubId()
+  const tag = randomUUID().slice(0, 8)
+  const email = o.email ?? `member-${tag}@test.hoopwise.example`
+  const name = o.name ?? `Test Member ${tag}`
+  const [user] = await sql<{ id: string }>(
+    `INSERT INTO users (email, name, password_hash, email_verified_at) VALUES ($1, $2, $3, $4) RETURNING id`,
+    [email, name, await passwordHash(), o.verified === false ? null : new Date()])
+  const paidThrough = o.paidDays === null ? null : clubDay(o.paidDays ?? 180)
+  const [m] = await sql<{ id: string }>(
+    `INSERT INTO memberships (club_id, user_id, roles, approved_at, paid_through, suspended_at, suspended_reason, resigned_at,
+       birth_date, guardian_name, guardian_email, guardian_consent_at)
+     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12) RETURNING id`,
+    [clubId, user!.id, ['member', ...(o.roles ?? []).filter(r => r !== 'member')], o.approved === false ? null : new Date(),
+      paidThrough, o.suspendedReason ? new Date() : null, o.suspendedReason ?? null, o.resigned ? new Date() : null,
+      o.birthDate === undefined ? clubDay(-30 * 365) : o.birthDate, o.guardianName ?? null, o.guardianEmail ?? null,
+      o.guardianConsent ? new Date() : null])
+  if (o.acceptWaiver ?? true) {
+    await sql(`INSERT INTO waiver_acceptances (club_id, waiver_id, membership_id, typed_name)
+      SELECT $1, id, $2, $3 FROM waivers WHERE club_id = $1 ORDER BY version DESC LIMIT 1`, [clubId, m!.id, name])
+  }
+  return { userId: user!.id, memberId: m!.id, email, name, password: FACTORY_PASSWORD }
+}
