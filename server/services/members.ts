@@ -1,0 +1,71 @@
+import { QueryTypes } from 'sequelize'
+import { Club, Membership, User, Waiver } from '../models'
+import { membershipStatus, dateInZone, ageOn, ADULT_AGE } from '../../shared/utils/membership-status'
+import { normaliseRoles } from '../../shared/utils/permissions'
+import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '../../shared/types/dto'
+
+const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
+
+/** Whether the member is under 18 today in the club's time zone (unknown birth date: not a junior). */
+export function isJunior(membership: Pick<Membership, 'birthDate'>, club: Pick<Club, 'timeZone'>, now = new Date()): boolean {
+  return !!membership.birthDate && ageOn(membership.birthDate, dateInZone(now, club.timeZone)) < ADULT_AGE
+}
+
+/** The member's position against the club's current waiver version. */
+export async function waiverStanding(clubId: string, membershipId: string): Promise<WaiverStandingDto> {
+  useDb()
+  const current = await Waiver.findOne({ where: { clubId }, order: [['version', 'DESC']] })
+  const [latest] = await useDb().query<{ version: number, accepted_at: Date }>(`
+    SELECT w.version, a.accepted_at FROM waiver_acceptances a JOIN waivers w ON w.id = a.waiver_id
+    WHERE a.membership_id = :membershipId ORDER BY w.version DESC LIMIT 1`, { replacements: { membershipId }, type: QueryTypes.SELECT })
+  return {
+    currentVersion: current?.version ?? null,
+    acceptedVersion: latest?.version ?? null,
+    acceptedAt: iso(latest?.accepted_at),
+    current: !current || latest?.version === current.version,
+  }
+}
+
+/** The directory row for a membership loaded with its user. */
+export function toMemberListItem(m: Membership & { user: User }, club: Club): MemberListItemDto {
+  return {
+    id: m.id,
+    name: m.user.name,
+    email: m.user.email,
+    roles: normaliseRoles(m.roles),
+    status: membershipStatus(m, { timeZone: club.timeZone, graceDays: club.graceDays }),
+    paidThrough: m.paidThrough,
+    joinedOn: dateInZone(m.createdAt, club.timeZone),
+    junior: isJunior(m, club),
+  }
+}
+
+/**
+ * The full member DTO for membership `membershipId` in club `clubId`, or null when it is not there
+ * (callers answer 404: missing and "not in your club" look the same).
+ */
+export async function loadMemberDto(clubId: string, membershipId: string): Promise<MemberDto | null> {
+  useDb()
+  const m = await Membership.findOne({
+    where: { id: membershipId, clubId },
+    include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],
+  })
+  if (!m?.user || !m.club) return null
+  return {
+    ...toMemberListItem(m as Membership & { user: User }, m.club),
+    approvedAt: iso(m.approvedAt),
+    suspendedAt: iso(m.suspendedAt),
+    suspendedReason: m.suspendedReason,
+    resignedAt: iso(m.resignedAt),
+    emailVerified: !!m.user.emailVerifiedAt,
+    birthDate: m.birthDate,
+    guardianName: m.guardianName,
+    guardianEmail: m.guardianEmail,
+    guardianConsentAt: iso(m.guardianConsentAt),
+    phone: m.phone,
+    emergencyContactName: m.emergencyContactName,
+    emergencyContactPhone: m.emergencyContactPhone,
+    unitPreference: m.unitPreference,
+    waiver: await waiverStanding(clubId, m.id),
+  }
+}
