@@ -27,7 +27,6 @@ export default defineNuxtConfig({
     loginMaxPerAccount: 5,
     loginMaxPerAddress: 20,
     loginWindowSeconds: 900,
-    noticeTaskCron: '*/10 * * * *',
   },
   compatibilityDate: '2025-07-15',
   nitro: {

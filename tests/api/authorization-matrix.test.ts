@@ -1,0 +1,79 @@
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { describe, it, expect, beforeAll } from 'vitest'
+import { api } from '../support/http'
+import { makeMember } from '../support/factories'
+import { ROOT } from '../../scripts/lib/config.mjs'
+
+/**
+ * Every route file under server/api × {anonymous, member, instructor, safety officer, admin} → the
+ * expected status. Routes are discovered from the files, so a new route without a row fails here.
+ *
+ * Write routes are called with an empty body: a caller who may use the route gets 400 (the input is
+ * checked only after the right), which proves the gate without changing anything. Reads answer 200.
+ */
+type Who = 'anon' | 'member' | 'instructor' | 'safety' | 'admin'
+type Row = Record<Who, number>
+
+const open = (s: number): Row => ({ anon: s, member: s, instructor: s, safety: s, admin: s })
+const signedIn = (s: number): Row => ({ anon: 401, member: s, instructor: s, safety: s, admin: s })
+/** Only the roles in `who` pass (with status `s`); the other signed-in roles get 403. */
+const only = (s: number, ...who: Who[]): Row => ({
+  anon: 401,
+  member: who.includes('member') ? s : 403,
+  instructor: who.includes('instructor') ? s : 403,
+  safety: who.includes('safety') ? s : 403,
+  admin: who.includes('admin') ? s : 403,
+})
+
+const MATRIX: Record<string, Row> = {
+  'GET /api/health': open(200),
+  'POST /api/auth/login': open(400),
+  'POST /api/auth/logout': open(200),
+}
+
+/** `members/[id]/roles.put.ts` → `PUT /api/members/[id]/roles`. */
+function discoverRoutes(): string[] {
+  const base = join(ROOT, 'server/api')
+  const walk = (dir: string): string[] => readdirSync(dir).flatMap((name) => {
+    const path = join(dir, name)
+    return statSync(path).isDirectory() ? walk(path) : [path]
+  })
+  return walk(base).filter(f => f.endsWith('.ts')).map((file) => {
+    const rel = relative(base, file).replace(/\.ts$/, '')
+    const m = rel.match(/^(.*)\.(get|post|put|patch|delete)$/)
+    if (!m) throw new Error(`${rel}: route files are method-suffixed (name.get.ts, name.post.ts …)`)
+    const path = `/api/${m[1]}`.replace(/\/index$/, '')
+    return `${m[2]!.toUpperCase()} ${path}`
+  }).sort()
+}
+
+let subjectId = ''
+
+describe('authorization matrix', () => {
+  const routes = discoverRoutes()
+
+  beforeAll(async () => {
+    subjectId = (await makeMember()).memberId
+  })
+
+  it('has a row for every route file and no row without a route', () => {
+    expect(routes.filter(r => !MATRIX[r])).toEqual([])
+    expect(Object.keys(MATRIX).filter(r => !routes.includes(r))).toEqual([])
+  })
+
+  const cases = routes.flatMap(route => (['anon', 'member', 'instructor', 'safety', 'admin'] as Who[])
+    .map(who => [route, who] as const))
+
+  it.each(cases)('%s as %s', async (route, who) => {
+    const row = MATRIX[route]
+    if (!row) return expect.fail(`no row for ${route}`)
+    const [method, pattern] = route.split(' ') as [string, string]
+    const path = pattern.replace(/\[id\]/g, subjectId).replace(/\[token\]/g, 'x'.repeat(43))
+    const res = await api(path, { method, as: who === 'anon' ? undefined : who, body: method === 'GET' ? undefined : {} })
+    expect(res.status, `${route} as ${who}: ${JSON.stringify(res.body)?.slice(0, 200)}`).toBe(row[who])
+    expect(res.status).not.toBe(500)
+  })
+})
+
+export { open, signedIn, only }
