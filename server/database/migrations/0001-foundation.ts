@@ -16,7 +16,7 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
       units text NOT NULL DEFAULT 'bar' CHECK (units IN ('bar', 'psi')),
       public_url text NOT NULL CHECK (public_url ~ '^https?://'),
       grace_days integer NOT NULL DEFAULT 30 CHECK (grace_days BETWEEN 0 AND 365),
-      policy jsonb NOT NULL DEFAULT '{}'::jsonb,
+      policy jsonb NOT NULL DEFAULT '{}'::jsonb CHECK (jsonb_typeof(policy) = 'object'),
       created_at timestamptz NOT NULL DEFAULT now(),
       updated_at timestamptz NOT NULL DEFAULT now()
     );
