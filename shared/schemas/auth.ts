@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { ADULT_AGE, ageOn } from '../utils/membership-status'
 import { emailField, isoDate, optionalText } from './common'
 
 export const passwordField = z.string().min(10, 'At least 10 characters').max(200, 'At most 200 characters')
@@ -8,6 +9,9 @@ export const LoginSchema = z.object({
   password: z.string().min(1, 'Enter your password').max(200, 'At most 200 characters'),
 })
 export type Login = z.infer<typeof LoginSchema>
+
+/** The earliest birth date sign-up accepts (anything earlier is a typing slip). */
+export const EARLIEST_BIRTH_DATE = '1900-01-01'
 
 /** Sign-up: an account and a pending membership. Under-18s name a guardian who must consent. */
 export const SignupSchema = z.object({
@@ -20,6 +24,41 @@ export const SignupSchema = z.object({
 })
 export type Signup = z.infer<typeof SignupSchema>
 
+/** Whether someone born on `birthDate` (YYYY-MM-DD) is under 18 on `today` (YYYY-MM-DD, the club's date). */
+export function isUnder18(birthDate: string, today: string): boolean {
+  return ageOn(birthDate, today) < ADULT_AGE
+}
+
+/**
+ * SignupSchema plus the rules that depend on the date: the birth date lies between 1900 and `today`,
+ * and a junior (under 18 on `today`, the club's calendar date) names a guardian with an e-mail of
+ * their own. The server passes today in the club's time zone; the form passes the browser's date.
+ */
+export function signupSchemaFor(today: string) {
+  return SignupSchema.superRefine((v, ctx) => {
+    // zod runs refinements on data whose fields already failed; a malformed date has its message.
+    if (!isoDate.safeParse(v.birthDate).success) return
+    if (v.birthDate > today) {
+      ctx.addIssue({ code: 'custom', path: ['birthDate'], message: 'The birth date cannot be in the future' })
+      return
+    }
+    if (v.birthDate < EARLIEST_BIRTH_DATE) {
+      ctx.addIssue({ code: 'custom', path: ['birthDate'], message: 'Check the year of the birth date' })
+      return
+    }
+    if (!isUnder18(v.birthDate, today)) return
+    if (!v.guardianName) {
+      ctx.addIssue({ code: 'custom', path: ['guardianName'], message: 'Members under 18 name a parent or guardian' })
+    }
+    if (!v.guardianEmail) {
+      ctx.addIssue({ code: 'custom', path: ['guardianEmail'], message: 'Enter the guardian\'s e-mail: we ask them for consent' })
+    }
+    else if (v.guardianEmail === v.email) {
+      ctx.addIssue({ code: 'custom', path: ['guardianEmail'], message: 'Use the guardian\'s own e-mail, not yours' })
+    }
+  })
+}
+
 export const TokenSchema = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, 'This link is not valid') })
 export type TokenBody = z.infer<typeof TokenSchema>
 
@@ -28,3 +67,10 @@ export type ResetRequest = z.infer<typeof ResetRequestSchema>
 
 export const ResetPasswordSchema = TokenSchema.extend({ password: passwordField })
 export type ResetPassword = z.infer<typeof ResetPasswordSchema>
+
+/** The reset form: the new password typed twice (the route takes ResetPasswordSchema). */
+export const NewPasswordFormSchema = z.object({
+  password: passwordField,
+  confirm: z.string().max(200, 'At most 200 characters'),
+}).refine(v => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ' })
+export type NewPasswordForm = z.infer<typeof NewPasswordFormSchema>

@@ -1,0 +1,271 @@
+import { Op, UniqueConstraintError, col, fn, where, type Transaction } from 'sequelize'
+import { ZodError } from 'zod'
+import { Club, Membership, User } from '../models'
+import type { Actor } from '../utils/auth'
+import { dateInZone } from '../../shared/utils/membership-status'
+import { isUnder18, type Signup } from '../../shared/schemas/auth'
+import type { SessionUser } from '../../shared/types/session'
+import type { EmailVerifiedDto, GuardianConsentDto } from '../../shared/types/accounts'
+import { recordAudit } from './audit'
+import { enqueueNotice } from './notices'
+import { kickNoticeQueue } from './notice-queue'
+import { sessionUserFor } from './sessions'
+import { consumeToken, issueToken, peekToken, recentTokenCount, revokeTokens } from './tokens'
+
+/** The message for a sign-up with an e-mail already in use: says no more than that. */
+export const EMAIL_TAKEN_MESSAGE = 'An account with this e-mail already exists. Sign in, or reset your password.'
+
+/** Password-reset requests beyond this many per account in RESET_WINDOW_MINUTES send nothing more. */
+const RESET_MAX_PER_WINDOW = 3
+const RESET_WINDOW_MINUTES = 15
+/** Fresh verification links a member may ask for per hour. */
+const RESEND_MAX_PER_HOUR = 5
+
+/**
+ * The club sign-ups join: for now the one club of this deployment (the first created).
+ * 503 when the database holds none (the seed has not run).
+ */
+export async function homeClub(transaction?: Transaction): Promise<Club> {
+  useDb()
+  const club = await Club.findOne({ order: [['createdAt', 'ASC']], transaction })
+  if (!club) throw createError({ statusCode: 503, statusMessage: 'Service Unavailable', message: 'No club is set up yet' })
+  return club
+}
+
+/** Today's calendar date (YYYY-MM-DD) in the club's time zone. */
+export function clubToday(club: Pick<Club, 'timeZone'>, now = new Date()): string {
+  return dateInZone(now, club.timeZone)
+}
+
+/** The e-mailed link to `path` on the club's public address (never the request's host). */
+export function linkFor(club: Pick<Club, 'publicUrl'>, path: string, token: string): string {
+  return `${baseUrlOf(club)}${path}?token=${encodeURIComponent(token)}`
+}
+
+function baseUrlOf(club: Pick<Club, 'publicUrl'>): string {
+  return club.publicUrl.replace(/\/+$/, '')
+}
+
+/** The account whose e-mail is `email`, whatever its case. */
+export async function findUserByEmail(email: string, transaction?: Transaction): Promise<User | null> {
+  useDb()
+  return User.findOne({ where: { [Op.and]: [where(fn('lower', col('email')), email.toLowerCase())] }, transaction })
+}
+
+/** The member as the actor of their own action (sign-up, password reset), for the audit trail. */
+function selfActor(user: User, membership: Membership, club: Club): Actor {
+  return { user, membership, club, roles: ['member'], status: 'pending' }
+}
+
+function fieldError(field: string, message: string): never {
+  badInput(new ZodError([{ code: 'custom', path: [field], message }]))
+}
+
+async function queueVerification(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+  const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'verify_email' }, transaction)
+  await enqueueNotice({
+    clubId: club.id,
+    membershipId: membership.id,
+    kind: 'email_verification',
+    subjectKey: issued.id,
+    dueOn: clubToday(club),
+    toEmail: user.email,
+    vars: { clubName: club.name, memberName: user.name, baseUrl: baseUrlOf(club), actionUrl: linkFor(club, '/verify-email', issued.token) },
+  }, transaction)
+}
+
+async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+  const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
+  await enqueueNotice({
+    clubId: club.id,
+    membershipId: membership.id,
+    kind: 'guardian_consent',
+    subjectKey: issued.id,
+    dueOn: clubToday(club),
+    toEmail: membership.guardianEmail!,
+    vars: {
+      clubName: club.name,
+      memberName: user.name,
+      guardianName: membership.guardianName ?? undefined,
+      baseUrl: baseUrlOf(club),
+      actionUrl: linkFor(club, '/guardian-consent', issued.token),
+    },
+  }, transaction)
+}
+
+export interface SignupOutcome { sessionUser: SessionUser, verificationSentTo: string, guardianConsentSentTo: string | null }
+
+/**
+ * Creates the account and a pending membership (not yet approved, never paid) in `club`, in one
+ * transaction with the verification notice — and, for a junior, the guardian's consent notice —
+ * then starts the notice queue once committed. 409 when the e-mail is taken (whatever its case);
+ * 400 on the guardian fields when a junior (under 18 in the club's time zone) leaves them out.
+ */
+export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> {
+  const junior = isUnder18(input.birthDate, clubToday(club))
+  if (junior && !input.guardianName) fieldError('guardianName', 'Members under 18 name a parent or guardian')
+  if (junior && !input.guardianEmail) fieldError('guardianEmail', 'Enter the guardian\'s e-mail: we ask them for consent')
+  if (await findUserByEmail(input.email)) conflict(EMAIL_TAKEN_MESSAGE)
+  const passwordHash = await hashPassword(input.password)
+  let user: User
+  try {
+    user = await useDb().transaction(async (transaction) => {
+      const created = await User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
+      const membership = await Membership.create({
+        clubId: club.id,
+        userId: created.id,
+        roles: ['member'],
+        birthDate: input.birthDate,
+        guardianName: junior ? input.guardianName : null,
+        guardianEmail: junior ? input.guardianEmail : null,
+      }, { transaction })
+      await queueVerification(club, created, membership, transaction)
+      if (junior) await queueGuardianConsent(club, created, membership, transaction)
+      await recordAudit(selfActor(created, membership, club), club.id, {
+        action: 'membership.signed_up',
+        subjectType: 'membership',
+        subjectId: membership.id,
+        after: { email: created.email, name: created.name, junior, guardianEmail: membership.guardianEmail },
+      }, transaction)
+      return created
+    })
+  }
+  catch (error) {
+    // Two sign-ups racing with one address: the unique index on lower(email) lets one through.
+    if (error instanceof UniqueConstraintError) conflict(EMAIL_TAKEN_MESSAGE)
+    mapDbError(error)
+  }
+  kickNoticeQueue()
+  const sessionUser = await sessionUserFor(user)
+  if (!sessionUser) throw new Error('sign-up left the account without a membership')
+  return { sessionUser, verificationSentTo: user.email, guardianConsentSentTo: junior ? input.guardianEmail ?? null : null }
+}
+
+/** Confirms the e-mail address the link was sent to. The link works once (422 when used, expired or unknown). */
+export async function verifyEmail(token: string): Promise<EmailVerifiedDto> {
+  const email = await useDb().transaction(async (transaction) => {
+    const row = await consumeToken(token, 'verify_email', transaction)
+    const user = await User.findByPk(row.userId, { transaction, rejectOnEmpty: true })
+    if (!user.emailVerifiedAt) await user.update({ emailVerifiedAt: new Date() }, { transaction })
+    return user.email
+  })
+  return { verified: true, email }
+}
+
+/** E-mails the signed-in member a fresh verification link. 422 when already verified; 429 after a few in an hour. */
+export async function resendVerification(actor: Actor): Promise<{ sentTo: string }> {
+  if (actor.user.emailVerifiedAt) {
+    refuse({ code: 'EMAIL_ALREADY_VERIFIED', message: 'Your e-mail address is already confirmed.' })
+  }
+  if (await recentTokenCount(actor.user.id, 'verify_email', 60) >= RESEND_MAX_PER_HOUR) {
+    throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: 'Several links were sent in the last hour. Check your inbox, or try again later.' })
+  }
+  await useDb().transaction(transaction => queueVerification(actor.club, actor.user, actor.membership, transaction))
+  kickNoticeQueue()
+  return { sentTo: actor.user.email }
+}
+
+/**
+ * Queues a password-reset link when an account with membership in the club uses `email`; does
+ * nothing otherwise. Callers answer the same either way, so the reply never reveals an account.
+ * Repeated requests beyond a few in a short window send nothing more (no inbox flooding).
+ */
+export async function requestPasswordReset(email: string): Promise<void> {
+  const club = await homeClub()
+  const user = await findUserByEmail(email)
+  if (!user) return
+  const membership = await Membership.findOne({ where: { userId: user.id, clubId: club.id } })
+  if (!membership) return
+  if (await recentTokenCount(user.id, 'reset_password', RESET_WINDOW_MINUTES) >= RESET_MAX_PER_WINDOW) return
+  await useDb().transaction(async (transaction) => {
+    const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'reset_password' }, transaction)
+    await enqueueNotice({
+      clubId: club.id,
+      membershipId: membership.id,
+      kind: 'password_reset',
+      subjectKey: issued.id,
+      dueOn: clubToday(club),
+      toEmail: user.email,
+      vars: { clubName: club.name, memberName: user.name, baseUrl: baseUrlOf(club), actionUrl: linkFor(club, '/reset-password', issued.token) },
+    }, transaction)
+  })
+  kickNoticeQueue()
+}
+
+/**
+ * Sets a new password from an e-mailed reset link: uses the link once, stops every other reset
+ * link of the account, confirms the e-mail (the link proved it), clears the sign-in failures and
+ * records the change in the audit trail — all in one transaction. 422 when the link cannot be used.
+ */
+export async function resetPassword(token: string, password: string): Promise<void> {
+  const passwordHash = await hashPassword(password)
+  const email = await useDb().transaction(async (transaction) => {
+    const row = await consumeToken(token, 'reset_password', transaction)
+    const user = await User.findByPk(row.userId, { transaction, rejectOnEmpty: true })
+    const membership = row.membershipId
+      ? await Membership.findByPk(row.membershipId, { transaction, include: [{ model: Club, as: 'club' }] })
+      : null
+    await user.update({ passwordHash, emailVerifiedAt: user.emailVerifiedAt ?? new Date() }, { transaction })
+    const revoked = await revokeTokens(user.id, 'reset_password', transaction)
+    if (membership?.club) {
+      await recordAudit(selfActor(user, membership, membership.club), membership.clubId, {
+        action: 'account.password_reset',
+        subjectType: 'user',
+        subjectId: user.id,
+        after: { otherResetLinksStopped: revoked },
+        reason: 'New password set from an e-mailed reset link',
+      }, transaction)
+    }
+    return user.email
+  })
+  await clearLoginFailures(email.toLowerCase())
+}
+
+async function consentContext(membershipId: string | null, transaction?: Transaction) {
+  if (!membershipId) refuse({ code: 'TOKEN_INVALID', message: 'This link is not valid. Ask for a new one.' })
+  const membership = await Membership.findByPk(membershipId, {
+    transaction,
+    include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],
+  })
+  if (!membership?.user || !membership.club) refuse({ code: 'TOKEN_INVALID', message: 'This link is not valid. Ask for a new one.' })
+  return membership as Membership & { user: User, club: Club }
+}
+
+function consentDto(m: Membership & { user: User, club: Club }): GuardianConsentDto {
+  return {
+    memberName: m.user.name,
+    clubName: m.club.name,
+    guardianName: m.guardianName,
+    consentedAt: m.guardianConsentAt ? new Date(m.guardianConsentAt).toISOString() : null,
+  }
+}
+
+/** Who the guardian's link is about (junior and club), without using the link. 422 when it cannot be used. */
+export async function guardianConsentPreview(token: string): Promise<GuardianConsentDto> {
+  useDb()
+  const row = await peekToken(token, 'guardian_consent')
+  return consentDto(await consentContext(row.membershipId))
+}
+
+/**
+ * Records the guardian's consent from their e-mailed link (works once), with an audit event; the
+ * actor is the guardian, who has no account, so the trail names them in the reason.
+ */
+export async function confirmGuardianConsent(token: string): Promise<GuardianConsentDto> {
+  return useDb().transaction(async (transaction) => {
+    const row = await consumeToken(token, 'guardian_consent', transaction)
+    const m = await consentContext(row.membershipId, transaction)
+    // A second link for a junior who already has consent changes nothing (and records nothing).
+    if (m.guardianConsentAt) return consentDto(m)
+    await m.update({ guardianConsentAt: new Date() }, { transaction })
+    await recordAudit(null, m.clubId, {
+      action: 'membership.guardian_consent',
+      subjectType: 'membership',
+      subjectId: m.id,
+      before: { guardianConsentAt: null },
+      after: { guardianConsentAt: new Date(m.guardianConsentAt!).toISOString() },
+      reason: `Consent confirmed by the guardian (${m.guardianName ?? 'unnamed'}, ${m.guardianEmail ?? 'no e-mail'}) from the e-mailed link`,
+    }, transaction)
+    return consentDto(m)
+  })
+}
