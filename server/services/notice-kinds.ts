@@ -21,6 +21,8 @@ export interface NoticeKind {
   optional: boolean
   /** A short label for the outbox and the profile's notice settings. */
   label: string
+  /** One sentence for the notice settings and the opt-out page: when this e-mail comes. */
+  description?: string
   render: (vars: NoticeVars) => RenderedNotice
 }
 
@@ -28,6 +30,15 @@ function notice(subject: string, lines: string[], action?: { label: string, url?
   const act = action?.url ? { label: action.label, url: action.url } : undefined
   const text = [...lines, ...(act ? ['', `${act.label}: ${act.url}`] : [])].join('\n')
   return { subject, text, lines, action: act }
+}
+
+const MONTHS = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October',
+  'November', 'December']
+
+/** A calendar date (YYYY-MM-DD) as e-mails show it: "14 March 2026"; anything else unchanged. */
+export function longDate(date: string | number | undefined): string {
+  const m = String(date ?? '').match(/^(\d{4})-(\d{2})-(\d{2})$/)
+  return m ? `${Number(m[3])} ${MONTHS[Number(m[2]) - 1]} ${m[1]}` : String(date ?? '')
 }
 
 export const NOTICE_KINDS = {
@@ -69,15 +80,27 @@ export const NOTICE_KINDS = {
   dues_reminder: {
     optional: true,
     label: 'Dues renewal reminder',
-    render: v => notice(`Your ${v.clubName} dues run out on ${v.paidThrough}`, [
+    description: 'A reminder 30 days before your dues run out.',
+    render: v => notice(`Your ${v.clubName} dues run out on ${longDate(v.paidThrough)}`, [
       `Hello ${v.memberName},`,
-      `Your membership is paid through ${v.paidThrough}. Renew before then to keep training, booking and filling without a gap.`,
+      `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep training, booking and filling without a gap.`,
     ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
   },
 } satisfies Record<string, NoticeKind>
 
 export type NoticeKindName = keyof typeof NOTICE_KINDS
 
+/** Whether `kind` names a kind in NOTICE_KINDS. */
 export function isNoticeKind(kind: string): kind is NoticeKindName {
   return Object.hasOwn(NOTICE_KINDS, kind)
+}
+
+/** The kinds a member may switch off, in the order they are declared. */
+export function optionalNoticeKinds(): NoticeKindName[] {
+  return (Object.keys(NOTICE_KINDS) as NoticeKindName[]).filter(k => (NOTICE_KINDS[k] as NoticeKind).optional)
+}
+
+/** The outbox label of `kind` (the kind itself when a later release dropped it). */
+export function noticeKindLabel(kind: string): string {
+  return isNoticeKind(kind) ? NOTICE_KINDS[kind].label : kind
 }

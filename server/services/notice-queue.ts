@@ -1,66 +1,112 @@
 import { QueryTypes } from 'sequelize'
-import { Notice } from '../models'
 import { sendMail } from '../utils/mail'
+import { NOTICE_KINDS, isNoticeKind } from './notice-kinds'
+import { oneClickOptOutUrl } from './notice-opt-out'
+import { optOutSecret } from './notices'
+import { backoffSeconds, classifySendError, statusAfterFailure } from './notice-policy'
 
-const BATCH = 50
-const LOCK_SECONDS = 120
-const MAX_BACKOFF_SECONDS = 6 * 3600
+// Small batches and a long lease: even at the transport's worst timeouts (5 s to connect, 10 s per
+// socket) a batch is done before its lease runs out, so no other run takes a row still being sent.
+const BATCH = 10
+const LEASE_SECONDS = 300
 
-/** Seconds to wait before attempt `attempts + 1`: 30 s doubling per failure, capped at 6 h. */
-export function backoffSeconds(attempts: number): number {
-  return Math.min(MAX_BACKOFF_SECONDS, 30 * 2 ** Math.max(0, attempts - 1))
+interface ClaimedNotice {
+  id: string
+  membership_id: string
+  kind: string
+  to_email: string
+  subject: string
+  text_body: string
+  html_body: string
+  attempts: number
+  opt_outs: string[]
+  public_url: string
 }
 
 /**
  * Claims due notices so that two runs at once never take the same row (FOR UPDATE SKIP LOCKED),
  * marking them `sending` with a lease; a crashed run's lease expires and the row is taken again.
+ * With `clubId`, only that club's notices.
  */
-async function claimDue(limit: number): Promise<Notice[]> {
-  const rows = await useDb().query<{ id: string }>(`
-    UPDATE notices SET status = 'sending', locked_until = now() + make_interval(secs => :lock), updated_at = now()
-    WHERE id IN (
-      SELECT id FROM notices
-      WHERE (status = 'queued' AND next_attempt_at <= now())
-         OR (status = 'sending' AND locked_until < now())
-      ORDER BY next_attempt_at
-      LIMIT :limit
-      FOR UPDATE SKIP LOCKED
+async function claimDue(limit: number, clubId?: string): Promise<ClaimedNotice[]> {
+  return useDb().query<ClaimedNotice>(`
+    WITH claimed AS (
+      UPDATE notices SET status = 'sending', locked_until = now() + make_interval(secs => :lease), updated_at = now()
+      WHERE id IN (
+        SELECT id FROM notices
+        WHERE ((status = 'queued' AND next_attempt_at <= now()) OR (status = 'sending' AND locked_until < now()))
+          ${clubId ? 'AND club_id = :clubId' : ''}
+        ORDER BY next_attempt_at
+        LIMIT :limit
+        FOR UPDATE SKIP LOCKED
+      )
+      RETURNING id, membership_id, club_id, kind, to_email, subject, text_body, html_body, attempts, next_attempt_at
     )
-    RETURNING id`, { replacements: { lock: LOCK_SECONDS, limit }, type: QueryTypes.SELECT })
-  if (!rows.length) return []
-  return Notice.findAll({ where: { id: rows.map(r => r.id) }, order: [['nextAttemptAt', 'ASC']] })
+    SELECT c.*, m.notice_opt_outs AS opt_outs, cl.public_url
+    FROM claimed c JOIN memberships m ON m.id = c.membership_id JOIN clubs cl ON cl.id = c.club_id
+    ORDER BY c.next_attempt_at`, { replacements: { lease: LEASE_SECONDS, limit, clubId }, type: QueryTypes.SELECT })
 }
 
-export interface QueueRun { sent: number, retried: number }
+/** What one queue run did: sent, put back for a later try, given up on, or skipped (opted out). */
+export interface QueueRun { sent: number, retried: number, failed: number, skipped: number }
+
+async function finish(id: string, set: string, replacements: Record<string, unknown> = {}): Promise<void> {
+  await useDb().query(`UPDATE notices SET ${set}, locked_until = NULL, updated_at = now() WHERE id = :id AND status = 'sending'`,
+    { replacements: { ...replacements, id } })
+}
+
+/** Headers that let a mail program offer one-click opt-out (RFC 2369 and RFC 8058) for optional kinds. */
+function listHeaders(n: ClaimedNotice): Record<string, string> | undefined {
+  if (!isNoticeKind(n.kind) || !NOTICE_KINDS[n.kind].optional) return undefined
+  const url = oneClickOptOutUrl(optOutSecret(), n.public_url.replace(/\/+$/, ''), n.membership_id, n.kind)
+  return { 'List-Unsubscribe': `<${url}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' }
+}
+
+const optedOut = (n: ClaimedNotice) => isNoticeKind(n.kind) && NOTICE_KINDS[n.kind].optional && n.opt_outs.includes(n.kind)
+
+/** Records a failed attempt on `notice`; returns the status it took. */
+async function recordFailure(notice: ClaimedNotice, error: unknown, message: string): Promise<'queued' | 'failed'> {
+  const attempts = notice.attempts + 1
+  const status = statusAfterFailure(classifySendError(error), attempts)
+  await finish(notice.id, `status = :status, attempts = :attempts, last_error = :message,
+    next_attempt_at = now() + make_interval(secs => :wait)`, { status, attempts, message: message.slice(0, 500), wait: backoffSeconds(attempts) })
+  return status
+}
 
 /**
- * Sends every due notice once. A notice whose send fails (mail server unreachable) goes back to
- * `queued` with a backoff; nothing is lost and nothing is sent twice.
+ * Sends every due notice once (only club `clubId`'s when given). A send that fails because the mail
+ * server cannot be reached puts the notice — and the rest of its batch — back in the queue with a
+ * backoff and ends the run: nothing is lost and nothing is sent twice. A permanent rejection (5xx)
+ * marks it `failed`; a member who opted out after it was queued makes it `skipped`.
  */
-export async function runNoticeQueue(): Promise<QueueRun> {
-  const result: QueueRun = { sent: 0, retried: 0 }
+export async function runNoticeQueue(opts: { clubId?: string } = {}): Promise<QueueRun> {
+  const result: QueueRun = { sent: 0, retried: 0, failed: 0, skipped: 0 }
   for (;;) {
-    const batch = await claimDue(BATCH)
+    const batch = await claimDue(BATCH, opts.clubId)
     if (!batch.length) return result
-    for (const notice of batch) {
+    for (const [index, notice] of batch.entries()) {
+      if (optedOut(notice)) {
+        await finish(notice.id, `status = 'skipped', last_error = 'The member opted out of this kind'`)
+        result.skipped += 1
+        continue
+      }
       try {
-        await sendMail({ to: notice.toEmail, subject: notice.subject, text: notice.textBody, html: notice.htmlBody })
-        await notice.update({ status: 'sent', sentAt: new Date(), attempts: notice.attempts + 1, lockedUntil: null, lastError: null })
+        await sendMail({ to: notice.to_email, subject: notice.subject, text: notice.text_body, html: notice.html_body, headers: listHeaders(notice) })
+        await finish(notice.id, `status = 'sent', sent_at = now(), attempts = attempts + 1, last_error = NULL`)
         result.sent += 1
       }
       catch (error) {
-        const attempts = notice.attempts + 1
-        await notice.update({
-          status: 'queued',
-          attempts,
-          lockedUntil: null,
-          lastError: (error as Error).message.slice(0, 500),
-          nextAttemptAt: new Date(Date.now() + backoffSeconds(attempts) * 1000),
-        })
-        result.retried += 1
+        const message = (error as Error).message ?? String(error)
+        if (classifySendError(error) !== 'unreachable') {
+          result[await recordFailure(notice, error, message) === 'failed' ? 'failed' : 'retried'] += 1
+          continue
+        }
+        // The server is down: the rest of this batch would fail the same way; try them all later.
+        for (const rest of batch.slice(index)) await recordFailure(rest, error, `Mail server unreachable: ${message}`)
+        result.retried += batch.length - index
+        return result
       }
     }
-    if (result.retried) return result // the mail server is failing: stop this run, the backoff decides the next
   }
 }
 
@@ -72,7 +118,7 @@ export function kickNoticeQueue(): void {
   running = runNoticeQueue()
     .catch((error) => {
       console.error('[notices] queue run failed:', (error as Error).message)
-      return { sent: 0, retried: 0 }
+      return { sent: 0, retried: 0, failed: 0, skipped: 0 }
     })
     .finally(() => {
       running = null

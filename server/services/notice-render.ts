@@ -1,4 +1,4 @@
-import type { NoticeVars, RenderedNotice } from './notice-kinds'
+import { NOTICE_KINDS, type NoticeKind, type NoticeKindName, type NoticeVars, type RenderedNotice } from './notice-kinds'
 
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 
@@ -16,4 +16,18 @@ export function renderNoticeHtml(notice: RenderedNotice, vars: NoticeVars): stri
     + `<div style="max-width:560px;margin:auto;background:#fff;border:1px solid #cfc6ae;border-radius:12px;padding:24px">`
     + `<p style="margin:0 0 16px;font-weight:700;color:#1f5a4b">${escapeHtml(vars.clubName)} · Hoopwise</p>`
     + paragraphs + action + optOut + '</div></body></html>'
+}
+
+export interface ComposedNotice { subject: string, text: string, html: string }
+
+/**
+ * Renders one notice of `kind` to its subject, text and HTML parts. `optOutUrl` is used only when
+ * the kind is optional (safety kinds never carry an opt-out link, whatever the caller passes).
+ */
+export function composeNotice(kind: NoticeKindName, vars: NoticeVars, optOutUrl?: string): ComposedNotice {
+  const def: NoticeKind = NOTICE_KINDS[kind]
+  const full: NoticeVars = { ...vars, optOutUrl: def.optional ? optOutUrl : undefined }
+  const rendered = def.render(full)
+  const text = full.optOutUrl ? `${rendered.text}\n\n--\nStop these e-mails: ${full.optOutUrl}` : rendered.text
+  return { subject: rendered.subject, text, html: renderNoticeHtml(rendered, full) }
 }

@@ -1,7 +1,12 @@
 import { QueryTypes, type Transaction } from 'sequelize'
 import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './notice-kinds'
-import { renderNoticeHtml } from './notice-render'
+import { composeNotice } from './notice-render'
 import { optOutUrl } from './notice-opt-out'
+
+/** The key that signs opt-out links: the server's session secret (never sent to a browser). */
+export function optOutSecret(): string {
+  return useRuntimeConfig().session.password
+}
 
 export interface EnqueueInput {
   clubId: string
@@ -14,7 +19,7 @@ export interface EnqueueInput {
   toEmail: string
   /** Opt-outs the member has chosen; an optional kind they opted out of is not queued. */
   optOuts?: string[]
-  // optOutUrl is filled in here for optional kinds.
+  /** Render variables; optOutUrl is filled in here for optional kinds. */
   vars: NoticeVars
 }
 
@@ -24,14 +29,10 @@ export interface EnqueueInput {
  * Call kickNoticeQueue() (services/notice-queue.ts) once the surrounding transaction has committed.
  */
 export async function enqueueNotice(input: EnqueueInput, transaction?: Transaction): Promise<boolean> {
-  const kind = NOTICE_KINDS[input.kind]
-  if (kind.optional && input.optOuts?.includes(input.kind)) return false
-  const vars = {
-    ...input.vars,
-    optOutUrl: kind.optional ? optOutUrl(input.vars.baseUrl, input.membershipId, input.kind) : undefined,
-  } as NoticeVars
-  const rendered = (kind.render as (v: NoticeVars) => ReturnType<typeof kind.render>)(vars)
-  const textBody = vars.optOutUrl ? `${rendered.text}\n\n--\nStop these e-mails: ${vars.optOutUrl}` : rendered.text
+  const optional = NOTICE_KINDS[input.kind].optional
+  if (optional && input.optOuts?.includes(input.kind)) return false
+  const link = optional ? optOutUrl(optOutSecret(), input.vars.baseUrl, input.membershipId, input.kind) : undefined
+  const composed = composeNotice(input.kind, input.vars, link)
   // ON CONFLICT DO NOTHING: a concurrent run that queues the same notice simply gets nothing back.
   const rows = await useDb().query<{ id: string }>(`
     INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body)
@@ -45,9 +46,9 @@ export async function enqueueNotice(input: EnqueueInput, transaction?: Transacti
       subjectKey: input.subjectKey ?? '',
       dueOn: input.dueOn,
       toEmail: input.toEmail,
-      subject: rendered.subject,
-      textBody,
-      htmlBody: renderNoticeHtml(rendered, vars),
+      subject: composed.subject,
+      textBody: composed.text,
+      htmlBody: composed.html,
     },
     type: QueryTypes.SELECT,
     transaction,

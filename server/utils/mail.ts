@@ -19,7 +19,14 @@ function useTransport(): Transporter {
   return transporter
 }
 
-export interface OutgoingMail { to: string, subject: string, text: string, html: string }
+export interface OutgoingMail {
+  to: string
+  subject: string
+  text: string
+  html: string
+  /** Extra headers, e.g. List-Unsubscribe for optional notices. */
+  headers?: Record<string, string>
+}
 
 /** Sends one message; throws when the mail server cannot be reached or refuses it. */
 export async function sendMail(mail: OutgoingMail): Promise<void> {

@@ -1,0 +1,7 @@
+import { noticeSettings } from '../../services/notice-preferences'
+
+/** The signed-in member's optional e-mails, each on or off. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireMember(event)
+  return noticeSettings(actor.membership.id)
+})

@@ -1,0 +1,9 @@
+import { NoticeSettingsSchema } from '../../../shared/schemas/notice'
+import { saveNoticeSettings } from '../../services/notice-preferences'
+
+/** Sets which optional e-mails the signed-in member has switched off. 422 for a safety kind. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireMember(event)
+  const { optOuts } = await validBody(event, NoticeSettingsSchema)
+  return saveNoticeSettings(actor.membership.id, optOuts)
+})

@@ -1,0 +1,55 @@
+import { QueryTypes } from 'sequelize'
+import { Club } from '../models'
+import { addCalendarDays, dateInZone } from '../../shared/utils/membership-status'
+import { enqueueNotice } from './notices'
+
+/** Days before paid-through that the dues reminder is due. */
+export const DUES_REMINDER_DAYS = 30
+
+interface DueMember { id: string, paid_through: string, email: string, name: string }
+
+/**
+ * Queues a `dues_reminder` for every member of `club` whose dues run out within the next 30 days
+ * ("today" in the club's time zone), unless suspended, resigned or opted out. Due on paid-through
+ * minus 30 days, so each member gets one per dues period however often the scan runs (the unique
+ * key in the database settles concurrent scans). Returns how many notices it queued.
+ */
+async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
+  const today = dateInZone(now, club.timeZone)
+  // Members already reminded for this period are left out here; ON CONFLICT covers a concurrent scan.
+  const due = await useDb().query<DueMember>(`
+    SELECT m.id, m.paid_through::text AS paid_through, u.email, u.name
+    FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.club_id = :clubId AND m.paid_through BETWEEN :today AND :until
+      AND m.suspended_at IS NULL AND m.resigned_at IS NULL
+      AND NOT ('dues_reminder' = ANY (m.notice_opt_outs))
+      AND NOT EXISTS (SELECT 1 FROM notices n WHERE n.membership_id = m.id AND n.kind = 'dues_reminder'
+        AND n.subject_key = m.paid_through::text AND n.due_on = m.paid_through - :days)
+    ORDER BY m.paid_through, m.id`, {
+    replacements: { clubId: club.id, today, until: addCalendarDays(today, DUES_REMINDER_DAYS), days: DUES_REMINDER_DAYS },
+    type: QueryTypes.SELECT,
+  })
+  let queued = 0
+  for (const m of due) {
+    const added = await enqueueNotice({
+      clubId: club.id,
+      membershipId: m.id,
+      kind: 'dues_reminder',
+      subjectKey: m.paid_through,
+      dueOn: addCalendarDays(m.paid_through, -DUES_REMINDER_DAYS),
+      toEmail: m.email,
+      vars: { clubName: club.name, memberName: m.name, baseUrl: club.publicUrl.replace(/\/+$/, ''), paidThrough: m.paid_through },
+    })
+    if (added) queued += 1
+  }
+  return queued
+}
+
+/** Runs every reminder scan for club `clubId` (or every club); returns how many notices were queued. */
+export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {}): Promise<number> {
+  useDb()
+  const clubs = await Club.findAll({ where: opts.clubId ? { id: opts.clubId } : {}, order: [['createdAt', 'ASC']] })
+  let queued = 0
+  for (const club of clubs) queued += await scanClubDuesReminders(club, opts.now ?? new Date())
+  return queued
+}

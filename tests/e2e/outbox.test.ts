@@ -1,0 +1,71 @@
+import { describe, it, expect, inject } from 'vitest'
+import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { makeMember } from '../support/factories'
+import { api } from '../support/http'
+import { sql } from '../support/db'
+import { DEMO } from '../support/test-env'
+
+await setup({
+  host: inject('baseUrl'),
+  browser: true,
+  browserOptions: {
+    type: 'chromium',
+    launch: {
+      executablePath: '/usr/bin/chromium',
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    },
+  },
+})
+
+describe('the outbox', () => {
+  it('shows an admin the notices and runs the queue on demand', async () => {
+    // Something for the outbox to show: a member whose dues run out soon, reminded by a run.
+    const member = await makeMember({ paidDays: 6 })
+    expect((await api('/api/notices/run', { method: 'POST', as: 'admin' })).status).toBe(200)
+    const later = await makeMember({ paidDays: 9 })
+    await sql(`UPDATE notices SET status = 'failed', last_error = '550 No such mailbox (browser test)'
+      WHERE id = (SELECT id FROM notices WHERE membership_id = $1 LIMIT 1)`, [member.memberId])
+
+    const page = await createPage('/login')
+    await page.getByTestId('field-email').fill(DEMO.admin)
+    await page.getByTestId('field-password').fill(DEMO.password)
+    await page.getByTestId('login-submit').click()
+    await page.waitForURL(url => url.pathname === '/')
+    await page.getByTestId('nav-outbox').first().click()
+    await page.waitForURL(url => url.pathname === '/outbox')
+
+    await page.getByTestId('notice-row').first().waitFor()
+    expect(await page.getByTestId('notice-row').count()).toBeGreaterThan(0)
+    await expect.poll(() => page.getByTestId('outbox-pager-status').textContent()).toMatch(/Page 1 of \d+/)
+
+    // Filter to failed notices: ours is there, with its error and a Retry that asks first.
+    await page.getByTestId('outbox-filter-status').selectOption('failed')
+    const row = page.locator('[data-testid="notice-row"]', { hasText: member.name })
+    await row.waitFor()
+    expect(await row.getByTestId('notice-status-failed').textContent()).toContain('Failed')
+    expect(await row.getByTestId('notice-last-error').textContent()).toContain('550 No such mailbox')
+    await row.getByTestId('notice-retry').click()
+    await row.getByTestId('notice-retry-confirm').click()
+    await page.getByTestId('form-ok').waitFor()
+    expect(await page.getByTestId('form-ok').textContent()).toMatch(/back in the queue/)
+
+    // Run the queue: the new member's reminder is queued and sent, and the run says so.
+    await page.getByTestId('outbox-filter-status').selectOption('')
+    await page.getByTestId('outbox-run').click()
+    await expect.poll(() => page.getByTestId('form-ok').textContent()).toMatch(/Done: \d+ reminders? queued; \d+ sent/)
+    await page.locator('[data-testid="notice-row"]', { hasText: later.name }).waitFor()
+    await page.close()
+  })
+
+  it('turns away a member who types the address', async () => {
+    const page = await createPage('/login')
+    await page.getByTestId('field-email').fill(DEMO.member)
+    await page.getByTestId('field-password').fill(DEMO.password)
+    await page.getByTestId('login-submit').click()
+    await page.waitForURL(url => url.pathname === '/')
+    expect(await page.getByTestId('nav-outbox').count()).toBe(0)
+    await page.goto(`${inject('baseUrl')}/outbox`, { waitUntil: 'hydration' })
+    expect(new URL(page.url()).pathname).toBe('/')
+    await page.close()
+  })
+})
