@@ -30,6 +30,20 @@ const MATRIX: Record<string, Row> = {
   'GET /api/health': open(200),
   'POST /api/auth/login': open(400),
   'POST /api/auth/logout': open(200),
+  'POST /api/auth/signup': open(400),
+  'POST /api/auth/verify-email': open(400),
+  'POST /api/auth/resend-verification': signedIn(422), // the demo accounts are verified already
+  'POST /api/auth/password-reset-request': open(400),
+  'POST /api/auth/password-reset': open(400),
+  'POST /api/guardian-consent': open(400),
+  'POST /api/guardian-consent/preview': open(400),
+  'GET /api/me/notice-settings': signedIn(200),
+  'PUT /api/me/notice-settings': signedIn(400),
+  'GET /api/notices': only(200, 'admin'),
+  'POST /api/notices/run': only(200, 'admin'),
+  'POST /api/notices/[id]/retry': only(404, 'admin'), // [id] is a membership id here: no such notice
+  'GET /api/notices/opt-out': open(400), // no token
+  'POST /api/notices/opt-out': open(400),
 }
 
 /** `members/[id]/roles.put.ts` → `PUT /api/members/[id]/roles`. */
@@ -76,4 +90,3 @@ describe('authorization matrix', () => {
   })
 })
 
-export { open, signedIn, only }
