@@ -89,4 +89,3 @@ describe('authorization matrix', () => {
     expect(res.status).not.toBe(500)
   })
 })
-
