@@ -1,9 +1,7 @@
-import { readdirSync, statSync } from 'node:fs'
-import { join, relative } from 'node:path'
 import { describe, it, expect, beforeAll } from 'vitest'
 import { api } from '../support/http'
 import { makeMember } from '../support/factories'
-import { ROOT } from '../../scripts/lib/config.mjs'
+import { discoverRoutes, concretePath } from '../support/routes'
 
 /**
  * Every route file under server/api × {anonymous, member, instructor, safety officer, admin} → the
@@ -46,22 +44,6 @@ const MATRIX: Record<string, Row> = {
   'POST /api/notices/opt-out': open(400),
 }
 
-/** `members/[id]/roles.put.ts` → `PUT /api/members/[id]/roles`. */
-function discoverRoutes(): string[] {
-  const base = join(ROOT, 'server/api')
-  const walk = (dir: string): string[] => readdirSync(dir).flatMap((name) => {
-    const path = join(dir, name)
-    return statSync(path).isDirectory() ? walk(path) : [path]
-  })
-  return walk(base).filter(f => f.endsWith('.ts')).map((file) => {
-    const rel = relative(base, file).replace(/\.ts$/, '')
-    const m = rel.match(/^(.*)\.(get|post|put|patch|delete)$/)
-    if (!m) throw new Error(`${rel}: route files are method-suffixed (name.get.ts, name.post.ts …)`)
-    const path = `/api/${m[1]}`.replace(/\/index$/, '')
-    return `${m[2]!.toUpperCase()} ${path}`
-  }).sort()
-}
-
 let subjectId = ''
 
 describe('authorization matrix', () => {
@@ -83,7 +65,7 @@ describe('authorization matrix', () => {
     const row = MATRIX[route]
     if (!row) return expect.fail(`no row for ${route}`)
     const [method, pattern] = route.split(' ') as [string, string]
-    const path = pattern.replace(/\[id\]/g, subjectId).replace(/\[token\]/g, 'x'.repeat(43))
+    const path = concretePath(pattern, subjectId)
     const res = await api(path, { method, as: who === 'anon' ? undefined : who, body: method === 'GET' ? undefined : {} })
     expect(res.status, `${route} as ${who}: ${JSON.stringify(res.body)?.slice(0, 200)}`).toBe(row[who])
     expect(res.status).not.toBe(500)
