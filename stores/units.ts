@@ -1,4 +1,5 @@
 import { defineStore } from 'pinia'
+import { computed, ref } from 'vue'
 
 /** Pascals per pound-force per square inch (NIST SP 811, appendix B.8: 1 psi = 6.894 757 293 168 kPa). */
 export const PA_PER_PSI = 6894.757293168

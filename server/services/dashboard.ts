@@ -27,6 +27,8 @@ const STATUS_HINTS: Record<MembershipStatus, string> = {
   resigned: 'Left the club.',
 }
 
+const days = (n: number) => `${n} day${n === 1 ? '' : 's'}`
+
 async function count(sql: string, replacements: Record<string, unknown>): Promise<number> {
   const [row] = await useDb().query<{ n: number }>(sql, { replacements, type: QueryTypes.SELECT })
   return row?.n ?? 0
@@ -36,10 +38,10 @@ async function count(sql: string, replacements: Record<string, unknown>): Promis
 function myCards(s: StandingDto): Card[] {
   const m = s.member
   const dues: Card = m.paidThrough
-    ? { key: 'my-paid-through', title: 'Dues paid through', value: m.paidThrough, hint: s.daysToExpiry! >= 0 ? `${s.daysToExpiry} day(s) left.` : `Ran out ${-s.daysToExpiry!} day(s) ago.`, to: '/standing', tone: s.daysToExpiry! > 30 ? 'ok' : 'attention', group: 'mine' }
+    ? { key: 'my-paid-through', title: 'Dues paid through', value: m.paidThrough, hint: s.daysToExpiry! >= 0 ? `${days(s.daysToExpiry!)} left.` : `Ran out ${days(-s.daysToExpiry!)} ago.`, to: '/standing', tone: s.daysToExpiry! > 30 ? 'ok' : 'attention', group: 'mine' }
     : { key: 'my-paid-through', title: 'Dues paid through', value: 'Never paid', hint: 'Your first dues make you an active member.', to: '/standing', tone: 'attention', group: 'mine' }
   return [
-    { key: 'my-status', title: 'My membership', value: MEMBERSHIP_STATUS_LABELS[m.status], hint: STATUS_HINTS[m.status], to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
+    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_LABELS[m.status], hint: STATUS_HINTS[m.status], to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
     {
       key: 'my-waiver',
       title: 'Waiver',
@@ -61,7 +63,7 @@ async function memberCards(clubId: string, today: string, graceDays: number): Pr
   const byStatus = new Map(rows.map(r => [r.status, r.n]))
   return MEMBERSHIP_STATUSES.map(status => ({
     key: `members-${status}`,
-    title: `${MEMBERSHIP_STATUS_LABELS[status]} members`,
+    title: MEMBERSHIP_STATUS_LABELS[status],
     value: byStatus.get(status) ?? 0,
     hint: STATUS_HINTS[status],
     to: `/members?status=${status}`,

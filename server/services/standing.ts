@@ -2,6 +2,7 @@ import type { Club } from '../models'
 import { Membership, User } from '../models'
 import { loadMemberDto } from './members'
 import { addCalendarDays, dateInZone, daysBetween } from '../../shared/utils/membership-status'
+import { formatCalendarDate as long } from '../../shared/utils/dates'
 import type { Profile } from '../../shared/schemas/member'
 import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../shared/types/dto'
 import type { Actor } from '../utils/auth'
@@ -39,17 +40,17 @@ export function attentionFor(member: MemberDto, club: ClubDto, today: string): A
   if (member.status === 'pending' && !awaitingApproval) {
     items.push({ code: 'DUES_NEVER_PAID', message: 'Pay your first dues to become an active member.', to: '/standing' })
   }
-  if (member.status === 'lapsed') {
-    items.push({ code: 'DUES_LAPSED', message: `Your membership lapsed: dues were paid through ${member.paidThrough}. Renew to train, fill and book again.`, to: '/standing' })
+  if (member.status === 'lapsed' && member.paidThrough) {
+    items.push({ code: 'DUES_LAPSED', message: `Your membership lapsed: dues were paid through ${long(member.paidThrough)}. Renew to train, fill and book again.`, to: '/standing' })
   }
   if (member.status === 'grace' && member.paidThrough) {
     const graceEnds = addCalendarDays(member.paidThrough, club.graceDays)
-    items.push({ code: 'DUES_GRACE', message: `Your dues ran out on ${member.paidThrough}. You can still train until ${graceEnds}, but not fill or book: renew now.`, to: '/standing' })
+    items.push({ code: 'DUES_GRACE', message: `Your dues ran out after ${long(member.paidThrough)}. You can still train until ${long(graceEnds)}, but not fill or book: renew now.`, to: '/standing' })
   }
   if (member.status === 'active' && member.paidThrough) {
     const left = daysBetween(today, member.paidThrough)
     if (left <= DUES_EXPIRING_DAYS) {
-      items.push({ code: 'DUES_EXPIRING', message: `Your dues are paid through ${member.paidThrough} (${left === 0 ? 'today is the last day' : `${left} day${left === 1 ? '' : 's'} left`}). Renew in time.`, to: '/standing' })
+      items.push({ code: 'DUES_EXPIRING', message: `Your dues are paid through ${long(member.paidThrough)} (${left === 0 ? 'today is the last day' : `${left} day${left === 1 ? '' : 's'} left`}). Renew in time.`, to: '/standing' })
     }
   }
   if (!member.waiver.current) {
