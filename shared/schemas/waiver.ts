@@ -12,3 +12,12 @@ export const WaiverAcceptSchema = z.object({
   typedName: z.string().trim().min(1, 'Type your full name').max(120, 'At most 120 characters'),
 })
 export type WaiverAccept = z.infer<typeof WaiverAcceptSchema>
+
+/**
+ * The accept form: the typed name from the route's schema plus the "I have read it" box, which only
+ * the form needs. The version comes from the text on screen.
+ */
+export const WaiverAcceptFormSchema = WaiverAcceptSchema.pick({ typedName: true }).extend({
+  read: z.literal(true, { errorMap: () => ({ message: 'Tick the box once you have read the waiver' }) }),
+})
+export type WaiverAcceptForm = z.infer<typeof WaiverAcceptFormSchema>

@@ -104,7 +104,28 @@ export interface AuditEventDto {
 
 export interface DashboardDto {
   roles: Role[]
-  cards: { key: string, title: string, value: number | string, hint: string, to?: string, tone: 'ok' | 'attention' | 'neutral' }[]
+  /** `group` sorts cards into sections on the dashboard: mine, members, office, safety, audit. */
+  cards: { key: string, title: string, value: number | string, hint: string, to?: string, tone: 'ok' | 'attention' | 'neutral', group?: string }[]
+}
+
+/** One line of "what needs my attention" (StandingDto.attention). */
+export type AttentionItem = StandingDto['attention'][number]
+
+/** A waiver version in the history, with how many members accepted it. */
+export interface WaiverVersionDto extends WaiverDto {
+  acceptances: number
+}
+
+/** GET /api/waivers/current: the version in force (null when none is published) and my standing against it. */
+export interface CurrentWaiverDto {
+  waiver: WaiverDto | null
+  standing: WaiverStandingDto
+}
+
+/** POST /api/waivers/accept: my standing after accepting; `alreadyAccepted` when it had been accepted before. */
+export interface WaiverAcceptedDto {
+  standing: WaiverStandingDto
+  alreadyAccepted: boolean
 }
 
 /** 422 body: a business rule refused the request. */

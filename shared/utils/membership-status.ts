@@ -75,3 +75,12 @@ export function ageOn(birthDate: string, today: string): number {
 }
 
 export const ADULT_AGE = 18
+
+/** Calendar days from `from` to `to` (both YYYY-MM-DD); negative when `to` is earlier. */
+export function daysBetween(from: string, to: string): number {
+  const utc = (d: string) => {
+    const [y, m, day] = d.split('-').map(Number)
+    return Date.UTC(y!, m! - 1, day!)
+  }
+  return Math.round((utc(to) - utc(from)) / 86_400_000)
+}

@@ -38,13 +38,15 @@ export interface MemberOverrides {
   guardianConsent?: boolean
   verified?: boolean
   acceptWaiver?: boolean
+  /** The club to join; default the demo club (see makeClub for a club of the test's own). */
+  clubId?: string
 }
 
 export interface MadeMember { userId: string, memberId: string, email: string, name: string, password: string }
 
 /** Creates an account and a membership in the demo club; unique e-mail unless given. */
 export async function makeMember(o: MemberOverrides = {}): Promise<MadeMember> {
-  const clubId = await demoClubId()
+  const clubId = o.clubId ?? await demoClubId()
   const tag = randomUUID().slice(0, 8)
   const email = o.email ?? `member-${tag}@test.hoopwise.example`
   const name = o.name ?? `Test Member ${tag}`
@@ -65,4 +67,16 @@ export async function makeMember(o: MemberOverrides = {}): Promise<MadeMember> {
       SELECT $1, id, $2, $3 FROM waivers WHERE club_id = $1 ORDER BY version DESC LIMIT 1`, [clubId, m!.id, name])
   }
   return { userId: user!.id, memberId: m!.id, email, name, password: FACTORY_PASSWORD }
+}
+
+/**
+ * A club of the test's own (same time zone as the demo club, no waiver yet), for tests whose writes
+ * touch every member of a club (a new waiver version) or that need exact club-wide counts.
+ */
+export async function makeClub(o: { name?: string, graceDays?: number } = {}): Promise<{ id: string, name: string }> {
+  const name = o.name ?? `Test Club ${randomUUID().slice(0, 8)}`
+  const [club] = await sql<{ id: string }>(
+    `INSERT INTO clubs (name, tag_prefix, time_zone, public_url, grace_days) VALUES ($1, 'TST', $2, 'http://127.0.0.1', $3) RETURNING id`,
+    [name, CLUB_TIME_ZONE, o.graceDays ?? 30])
+  return { id: club!.id, name }
 }

@@ -1,0 +1,16 @@
+import { ProfileSchema } from '../../../shared/schemas/member'
+import { updateProfile } from '../../services/standing'
+
+/**
+ * Edit my own profile: name, phone, emergency contact, unit preference. Not audited (own contact
+ * details). The session's name follows so the header shows the new one at once.
+ */
+export default defineEventHandler(async (event) => {
+  const actor = await requireMember(event)
+  const profile = await validBody(event, ProfileSchema)
+  const member = (await updateProfile(actor, profile)) ?? notFound()
+  // Replace rather than merge: merging would concatenate the roles array.
+  const { id: _sessionId, ...session } = await getUserSession(event)
+  if (session.user) await replaceUserSession(event, { ...session, user: { ...session.user, name: member.name } })
+  return member
+})

@@ -1,0 +1,101 @@
+import type { Club } from '../models'
+import { Membership, User } from '../models'
+import { loadMemberDto } from './members'
+import { addCalendarDays, dateInZone, daysBetween } from '../../shared/utils/membership-status'
+import { formatCalendarDate as long } from '../../shared/utils/dates'
+import type { Profile } from '../../shared/schemas/member'
+import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../shared/types/dto'
+import type { Actor } from '../utils/auth'
+
+/** Renewal reminders start this many days before the paid-through date. */
+export const DUES_EXPIRING_DAYS = 30
+
+/** The club as the member's screens see it. */
+export function toClubDto(club: Club): ClubDto {
+  return { id: club.id, name: club.name, timeZone: club.timeZone, units: club.units, graceDays: club.graceDays }
+}
+
+/**
+ * What the member should do next, most pressing first, each a plain sentence with a link.
+ * Codes are stable: SUSPENDED, RESIGNED, EMAIL_UNVERIFIED, AWAITING_APPROVAL, DUES_NEVER_PAID,
+ * DUES_LAPSED, DUES_GRACE, DUES_EXPIRING, WAIVER_NOT_ACCEPTED, GUARDIAN_CONSENT_MISSING.
+ * Dues items are left out while suspended or resigned (the admin's action says it all), and
+ * DUES_NEVER_PAID waits until the sign-up is approved.
+ */
+export function attentionFor(member: MemberDto, club: ClubDto, today: string): AttentionItem[] {
+  const items: AttentionItem[] = []
+  const awaitingApproval = !member.approvedAt && member.status !== 'suspended' && member.status !== 'resigned'
+  if (member.status === 'suspended') {
+    items.push({ code: 'SUSPENDED', message: `Your membership is suspended${member.suspendedReason ? `: ${member.suspendedReason}` : ''}. Talk to the club's admin.`, to: '/standing' })
+  }
+  if (member.status === 'resigned') {
+    items.push({ code: 'RESIGNED', message: 'You have resigned from the club. Paying dues again brings you back.', to: '/standing' })
+  }
+  if (!member.emailVerified) {
+    items.push({ code: 'EMAIL_UNVERIFIED', message: 'Confirm your e-mail address with the link we sent you.', to: '/profile' })
+  }
+  if (awaitingApproval) {
+    items.push({ code: 'AWAITING_APPROVAL', message: 'Your sign-up is waiting for the club\'s admin to approve it.', to: '/standing' })
+  }
+  if (member.status === 'pending' && !awaitingApproval) {
+    items.push({ code: 'DUES_NEVER_PAID', message: 'Pay your first dues to become an active member.', to: '/standing' })
+  }
+  if (member.status === 'lapsed' && member.paidThrough) {
+    items.push({ code: 'DUES_LAPSED', message: `Your membership lapsed: dues were paid through ${long(member.paidThrough)}. Renew to train, fill and book again.`, to: '/standing' })
+  }
+  if (member.status === 'grace' && member.paidThrough) {
+    const graceEnds = addCalendarDays(member.paidThrough, club.graceDays)
+    items.push({ code: 'DUES_GRACE', message: `Your dues ran out after ${long(member.paidThrough)}. You can still train until ${long(graceEnds)}, but not fill or book: renew now.`, to: '/standing' })
+  }
+  if (member.status === 'active' && member.paidThrough) {
+    const left = daysBetween(today, member.paidThrough)
+    if (left <= DUES_EXPIRING_DAYS) {
+      items.push({ code: 'DUES_EXPIRING', message: `Your dues are paid through ${long(member.paidThrough)} (${left === 0 ? 'today is the last day' : `${left} day${left === 1 ? '' : 's'} left`}). Renew in time.`, to: '/standing' })
+    }
+  }
+  if (!member.waiver.current) {
+    items.push({
+      code: 'WAIVER_NOT_ACCEPTED',
+      message: member.waiver.acceptedVersion
+        ? `The club published a new waiver (version ${member.waiver.currentVersion}). Read and accept it before your next fill.`
+        : 'Read and accept the club\'s waiver before your first fill.',
+      to: '/waiver',
+    })
+  }
+  if (member.junior && !member.guardianConsentAt) {
+    items.push({ code: 'GUARDIAN_CONSENT_MISSING', message: `Your guardian${member.guardianName ? ` (${member.guardianName})` : ''} has not yet confirmed their consent from the link we e-mailed them.`, to: '/standing' })
+  }
+  return items
+}
+
+/** "My standing" for the signed-in member: the member DTO, the club, today there, and what needs attention. */
+export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
+  const member = await loadMemberDto(actor.club.id, actor.membership.id)
+  if (!member) return null
+  const club = toClubDto(actor.club)
+  const today = dateInZone(new Date(), club.timeZone)
+  return {
+    member,
+    club,
+    today,
+    daysToExpiry: member.paidThrough ? daysBetween(today, member.paidThrough) : null,
+    attention: attentionFor(member, club, today),
+  }
+}
+
+/**
+ * The member's own profile edit: name (on the account) and contact details (on the membership),
+ * in one transaction. Not audited: contact details are the member's own, not a privileged change.
+ * Fields left out are kept; fields sent empty are cleared.
+ */
+export async function updateProfile(actor: Actor, profile: Profile): Promise<MemberDto | null> {
+  const { name, ...contact } = profile
+  const changes = Object.fromEntries(Object.entries(contact).filter(([, v]) => v !== undefined))
+  await useDb().transaction(async (transaction) => {
+    await User.update({ name }, { where: { id: actor.user.id }, transaction })
+    if (Object.keys(changes).length) {
+      await Membership.update(changes, { where: { id: actor.membership.id, clubId: actor.club.id }, transaction })
+    }
+  })
+  return loadMemberDto(actor.club.id, actor.membership.id)
+}

@@ -1,0 +1,48 @@
+import { beforeEach, describe, expect, it } from 'vitest'
+import { createPinia, setActivePinia } from 'pinia'
+import { PA_PER_BAR, PA_PER_PSI, useUnitsStore } from '../../stores/units'
+import { formatCalendarDate, formatInstant } from '../../shared/utils/dates'
+
+describe('the units store', () => {
+  beforeEach(() => {
+    setActivePinia(createPinia())
+  })
+
+  it('uses NIST SP 811\'s factor: 1 psi = 6 894.757 293 168 Pa, so 1 bar ≈ 14.503 77 psi', () => {
+    expect(PA_PER_PSI).toBe(6894.757293168)
+    expect(PA_PER_BAR / PA_PER_PSI).toBeCloseTo(14.503774, 6)
+  })
+
+  it.each([
+    ['bar', 6, { main: '6.0 bar', other: '87 psi' }],
+    ['psi', 6, { main: '87 psi', other: '6.0 bar' }],
+    ['bar', 6.894757, { main: '6.9 bar', other: '100 psi' }],
+    ['psi', 17, { main: '247 psi', other: '17.0 bar' }],
+  ] as const)('with %s first shows %d bar as %j', (unit, bar, expected) => {
+    const units = useUnitsStore()
+    units.setPreference(unit)
+    expect(units.show(bar)).toEqual(expected)
+    expect(units.other).toBe(unit === 'bar' ? 'psi' : 'bar')
+  })
+
+  it('starts with bar', () => {
+    expect(useUnitsStore().preference).toBe('bar')
+  })
+})
+
+describe('date display', () => {
+  it.each([
+    ['2026-03-01', '1 March 2026'],
+    ['2024-02-29', '29 February 2024'],
+    ['2026-12-31', '31 December 2026'],
+  ])('writes the calendar date %s as %s, whatever the zone', (date, expected) => {
+    expect(formatCalendarDate(date)).toBe(expected)
+  })
+
+  it.each([
+    ['Pacific/Auckland', '2 Mar 2026, 12:30'],
+    ['America/Los_Angeles', '1 Mar 2026, 15:30'],
+  ])('shows an instant in the club\'s zone (%s)', (zone, expected) => {
+    expect(formatInstant('2026-03-01T23:30:00Z', zone)).toBe(expected)
+  })
+})
