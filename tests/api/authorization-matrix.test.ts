@@ -42,6 +42,13 @@ const MATRIX: Record<string, Row> = {
   'POST /api/notices/[id]/retry': only(404, 'admin'), // [id] is a membership id here: no such notice
   'GET /api/notices/opt-out': open(400), // no token
   'POST /api/notices/opt-out': open(400),
+  'GET /api/me': signedIn(200),
+  'PATCH /api/me/profile': signedIn(400),
+  'GET /api/dashboard': signedIn(200),
+  'GET /api/waivers/current': signedIn(200),
+  'POST /api/waivers/accept': signedIn(400),
+  'GET /api/waivers': only(200, 'safety'),
+  'POST /api/waivers': only(400, 'safety'), // an empty body: nothing is published in the demo club
 }
 
 let subjectId = ''
