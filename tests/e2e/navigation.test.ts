@@ -1,34 +1,13 @@
-import { describe, expect, it, inject } from 'vitest'
-import { createPage, setup } from '@nuxt/test-utils/e2e'
+import { describe, expect, it } from 'vitest'
+import { createPage } from '@nuxt/test-utils/e2e'
+import { setupBrowser, goTo, submitSignIn } from '../support/browser'
 import type { Page } from 'playwright-core'
 import { DEMO, type DemoRole } from '../support/test-env'
 import { makeMember } from '../support/factories'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
-/** Opens `path` as if typed in the address bar and waits for the app to hydrate. */
-async function go(page: Page, path: string) {
-  await page.goto(new URL(path, inject('baseUrl')).href)
-  await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
-}
+await setupBrowser()
 
 const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-members', 'nav-audit', 'nav-outbox']
-
-/** Signs in through the form and waits for the dashboard. */
-async function signInThroughForm(page: Page, email: string, password: string) {
-  await page.getByTestId('field-email').fill(email)
-  await page.getByTestId('field-password').fill(password)
-  await page.getByTestId('login-submit').click()
-}
 
 async function visibleNavItems(page: Page): Promise<string[]> {
   const found: string[] = []
@@ -45,7 +24,7 @@ describe('navigation per role', () => {
   ])('the demo %s account signs in through the form and sees exactly its navigation', async (role, expected) => {
     const page = await createPage('/login')
     try {
-      await signInThroughForm(page, DEMO[role], DEMO.password)
+      await submitSignIn(page, DEMO[role], DEMO.password)
       await page.waitForURL(url => url.pathname === '/')
       await page.getByTestId('attention').waitFor()
       expect(await visibleNavItems(page)).toEqual(expected)
@@ -61,9 +40,9 @@ describe('turning away and signing out', () => {
   it('turns a member who types /members in the address bar back to the dashboard with a notice', async () => {
     const page = await createPage('/login')
     try {
-      await signInThroughForm(page, DEMO.member, DEMO.password)
+      await submitSignIn(page, DEMO.member, DEMO.password)
       await page.waitForURL(url => url.pathname === '/')
-      await go(page, '/members')
+      await goTo(page, '/members')
       expect(new URL(page.url()).pathname).toBe('/')
       const notice = page.getByTestId('denied-notice')
       await notice.waitFor()
@@ -81,7 +60,7 @@ describe('turning away and signing out', () => {
     const someone = await makeMember()
     const page = await createPage('/login')
     try {
-      await signInThroughForm(page, someone.email, 'not-the-password')
+      await submitSignIn(page, someone.email, 'not-the-password')
       const error = page.getByTestId('form-error')
       await error.waitFor()
       expect(await error.textContent()).toMatch(/wrong/i)
@@ -95,11 +74,11 @@ describe('turning away and signing out', () => {
   it('signs out: back on the sign-in page, and the dashboard asks for sign-in again', async () => {
     const page = await createPage('/login')
     try {
-      await signInThroughForm(page, DEMO.instructor, DEMO.password)
+      await submitSignIn(page, DEMO.instructor, DEMO.password)
       await page.waitForURL(url => url.pathname === '/')
       await page.getByTestId('sign-out').click()
       await page.waitForURL(url => url.pathname === '/login')
-      await go(page, '/standing')
+      await goTo(page, '/standing')
       expect(new URL(page.url()).pathname).toBe('/login')
       expect(new URL(page.url()).searchParams.get('next')).toBe('/standing')
     }
@@ -113,7 +92,7 @@ describe('on a phone (360 × 740)', () => {
   it('hides the navigation behind the menu button, which opens it', async () => {
     const page = await createPage('/login', { viewport: { width: 360, height: 740 } })
     try {
-      await signInThroughForm(page, DEMO.safety, DEMO.password)
+      await submitSignIn(page, DEMO.safety, DEMO.password)
       await page.waitForURL(url => url.pathname === '/')
       await page.getByTestId('attention').waitFor()
       expect(await page.getByTestId('main-nav').isVisible()).toBe(false)

@@ -1,21 +1,12 @@
-import { describe, it, expect, inject } from 'vitest'
-import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { describe, it, expect } from 'vitest'
+import { createPage } from '@nuxt/test-utils/e2e'
+import { setupBrowser } from '../support/browser'
 import { makeMember } from '../support/factories'
 import { api } from '../support/http'
 import { sql } from '../support/db'
 import { waitForMail, linkIn } from '../support/mail'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
+await setupBrowser()
 
 describe('the opt-out page', () => {
   it('stops dues reminders from the e-mailed link without signing in, after a confirmation', async () => {

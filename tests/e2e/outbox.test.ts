@@ -1,21 +1,11 @@
-import { describe, it, expect, inject } from 'vitest'
-import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { describe, it, expect } from 'vitest'
+import { setupBrowser, signedInPage, goTo } from '../support/browser'
 import { makeMember } from '../support/factories'
 import { api } from '../support/http'
 import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
+await setupBrowser()
 
 describe('the outbox', () => {
   it('shows an admin the notices and runs the queue on demand', async () => {
@@ -26,11 +16,7 @@ describe('the outbox', () => {
     await sql(`UPDATE notices SET status = 'failed', last_error = '550 No such mailbox (browser test)'
       WHERE id = (SELECT id FROM notices WHERE membership_id = $1 LIMIT 1)`, [member.memberId])
 
-    const page = await createPage('/login')
-    await page.getByTestId('field-email').fill(DEMO.admin)
-    await page.getByTestId('field-password').fill(DEMO.password)
-    await page.getByTestId('login-submit').click()
-    await page.waitForURL(url => url.pathname === '/')
+    const page = await signedInPage(DEMO.admin, DEMO.password)
     await page.getByTestId('nav-outbox').first().click()
     await page.waitForURL(url => url.pathname === '/outbox')
 
@@ -58,13 +44,9 @@ describe('the outbox', () => {
   })
 
   it('turns away a member who types the address', async () => {
-    const page = await createPage('/login')
-    await page.getByTestId('field-email').fill(DEMO.member)
-    await page.getByTestId('field-password').fill(DEMO.password)
-    await page.getByTestId('login-submit').click()
-    await page.waitForURL(url => url.pathname === '/')
+    const page = await signedInPage(DEMO.member, DEMO.password)
     expect(await page.getByTestId('nav-outbox').count()).toBe(0)
-    await page.goto(`${inject('baseUrl')}/outbox`, { waitUntil: 'hydration' })
+    await goTo(page, '/outbox')
     expect(new URL(page.url()).pathname).toBe('/')
     await page.close()
   })

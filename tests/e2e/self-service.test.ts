@@ -1,32 +1,12 @@
-import { describe, expect, it, inject } from 'vitest'
-import { createPage, setup } from '@nuxt/test-utils/e2e'
+import { describe, expect, it } from 'vitest'
+import { setupBrowser, goTo, signedInPage } from '../support/browser'
 import type { Page } from 'playwright-core'
 import { makeClub, makeMember, type MadeMember } from '../support/factories'
 import { sql } from '../support/db'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
-/** Opens `path` as if typed in the address bar and waits for the app to hydrate. */
-async function go(page: Page, path: string) {
-  await page.goto(new URL(path, inject('baseUrl')).href)
-  await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
-}
-
+await setupBrowser()
 async function signedIn(m: MadeMember): Promise<Page> {
-  const page = await createPage('/login')
-  await page.getByTestId('field-email').fill(m.email)
-  await page.getByTestId('field-password').fill(m.password)
-  await page.getByTestId('login-submit').click()
-  await page.waitForURL(url => url.pathname === '/')
+  const page = await signedInPage(m.email, m.password)
   await page.getByTestId('attention').waitFor()
   return page
 }
@@ -96,7 +76,7 @@ describe('a member\'s own screens', () => {
         `SELECT u.name, m.phone, m.unit_preference FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $1`, [member.memberId])
       expect(row).toEqual({ name: 'Gorse Ebbridge-Kelp', phone: '+44 1632 960999', unit_preference: 'psi' })
 
-      await go(page, '/profile')
+      await goTo(page, '/profile')
       expect(await page.getByTestId('unit-psi').isChecked()).toBe(true)
     }
     finally {
@@ -111,7 +91,7 @@ describe('the safety officer\'s waiver desk', () => {
     const officer = await makeMember({ clubId: club.id, roles: ['instructor', 'safety_officer'], name: 'Delphine Reedmere' })
     const page = await signedIn(officer)
     try {
-      await go(page, '/waiver')
+      await goTo(page, '/waiver')
       await page.getByTestId('waiver-none').waitFor()
       await page.getByTestId('waiver-title-input').fill('Reedmere club waiver')
       await page.getByTestId('waiver-body-input').fill('Proof tests are done full of water and from a distance. Eye protection at the pad.')

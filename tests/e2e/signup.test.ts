@@ -1,21 +1,12 @@
 import { randomUUID } from 'node:crypto'
-import { describe, it, expect, inject } from 'vitest'
-import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { describe, it, expect } from 'vitest'
+import { createPage } from '@nuxt/test-utils/e2e'
+import { setupBrowser } from '../support/browser'
 import { linkIn, waitForMail } from '../support/mail'
 import { sql } from '../support/db'
 import { clubDay } from '../support/factories'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
+await setupBrowser()
 
 describe('joining the club in the browser', () => {
   it('signs up, confirms the e-mail from the link and lands signed in with a pending membership', async () => {

@@ -1,0 +1,39 @@
+// Browser journeys: @nuxt/test-utils drives Debian's Chromium through playwright-core against the
+// shared test server (never `playwright install`).
+import { inject } from 'vitest'
+import { setup, createPage } from '@nuxt/test-utils/e2e'
+import type { Page } from 'playwright-core'
+
+/** The flags that keep Chromium from dialling out on a closed network. */
+export const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking',
+  '--disable-component-update', '--disable-sync', '--no-first-run']
+
+/** Call at the top of a browser test file: points @nuxt/test-utils at the shared server with Chromium. */
+export async function setupBrowser(): Promise<void> {
+  await setup({
+    host: inject('baseUrl'),
+    browser: true,
+    browserOptions: { type: 'chromium', launch: { executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS } },
+  })
+}
+
+/** Opens `path` as if typed in the address bar and waits for the app to hydrate. */
+export async function goTo(page: Page, path: string): Promise<void> {
+  await page.goto(new URL(path, inject('baseUrl')).href)
+  await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
+}
+
+/** Fills and submits the sign-in form on `page` (already on /login); does not wait for the outcome. */
+export async function submitSignIn(page: Page, email: string, password: string): Promise<void> {
+  await page.getByTestId('field-email').fill(email)
+  await page.getByTestId('field-password').fill(password)
+  await page.getByTestId('login-submit').click()
+}
+
+/** A new page signed in through the form, on the dashboard. */
+export async function signedInPage(email: string, password: string): Promise<Page> {
+  const page = await createPage('/login')
+  await submitSignIn(page, email, password)
+  await page.waitForURL(url => url.pathname === '/')
+  return page
+}
