@@ -1,0 +1,53 @@
+#!/usr/bin/env node
+// Screenshots of a running Hoopwise (npm start) for the README and for looking at the product:
+//   node scripts/screenshots.mjs [baseUrl] [outDir]
+// Signs in with the demo accounts and captures the main screens at desktop and phone widths.
+import { mkdirSync } from 'node:fs'
+import { join } from 'node:path'
+import { chromium } from 'playwright-core'
+import { ROOT } from './lib/config.mjs'
+
+const baseUrl = process.argv[2] ?? 'http://localhost:3000'
+const outDir = process.argv[3] ?? join(ROOT, 'docs', 'screenshots')
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run']
+
+const SHOTS = [
+  { who: 'admin@hoopwise.example', path: '/', name: 'dashboard' },
+  { who: 'admin@hoopwise.example', path: '/members', name: 'members' },
+  { who: 'admin@hoopwise.example', path: '/outbox', name: 'outbox' },
+  { who: 'safety@hoopwise.example', path: '/audit', name: 'audit' },
+  { who: 'safety@hoopwise.example', path: '/waiver', name: 'waiver' },
+  { who: 'member@hoopwise.example', path: '/standing', name: 'standing' },
+  { who: 'member@hoopwise.example', path: '/profile', name: 'profile' },
+]
+
+mkdirSync(outDir, { recursive: true })
+const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: ARGS })
+try {
+  for (const viewport of [{ width: 1280, height: 860, suffix: '' }, { width: 360, height: 740, suffix: '-phone' }]) {
+    const contexts = new Map()
+    for (const shot of SHOTS) {
+      if (!contexts.has(shot.who)) {
+        const context = await browser.newContext({ viewport })
+        const page = await context.newPage()
+        await page.goto(`${baseUrl}/login`)
+        await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
+        await page.getByTestId('field-email').fill(shot.who)
+        await page.getByTestId('field-password').fill('hoopwise-demo')
+        await page.getByTestId('login-submit').click()
+        await page.waitForURL(url => url.pathname === '/')
+        contexts.set(shot.who, page)
+      }
+      const page = contexts.get(shot.who)
+      await page.goto(`${baseUrl}${shot.path}`)
+      await page.waitForLoadState('networkidle')
+      const file = join(outDir, `${shot.name}${viewport.suffix}.png`)
+      await page.screenshot({ path: file, fullPage: viewport.suffix === '' })
+      console.log(`• ${file}`)
+    }
+    for (const page of contexts.values()) await page.context().close()
+  }
+}
+finally {
+  await browser.close()
+}
