@@ -26,8 +26,12 @@ export async function waiverStanding(clubId: string, membershipId: string): Prom
   }
 }
 
+/** What a directory row is built from: a membership (model or raw row) with its user's name and e-mail. */
+export type MemberListSource = Pick<Membership, 'id' | 'roles' | 'paidThrough' | 'suspendedAt' | 'resignedAt' | 'birthDate' | 'createdAt'>
+  & { user: Pick<User, 'name' | 'email'> }
+
 /** The directory row for a membership loaded with its user. */
-export function toMemberListItem(m: Membership & { user: User }, club: Club): MemberListItemDto {
+export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone' | 'graceDays'>): MemberListItemDto {
   return {
     id: m.id,
     name: m.user.name,

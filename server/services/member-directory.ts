@@ -1,0 +1,109 @@
+import { QueryTypes } from 'sequelize'
+import type { Club } from '../models'
+import { dateInZone, type MembershipStatus } from '../../shared/utils/membership-status'
+import type { MemberDirectoryQuery } from '../../shared/schemas/member'
+import type { MemberListItemDto, Paged } from '../../shared/types/dto'
+import { toMemberListItem } from './members'
+
+/**
+ * The SQL mirror of `membershipStatus()` in shared/utils/membership-status.ts — keep the two in step
+ * (tests/api/directory.test.ts checks they agree for every status and at the grace boundaries).
+ * Precedence as there: suspended > resigned > pending (never paid) > active (paid through today or
+ * later) > grace (today <= paid_through + grace days, i.e. paid_through >= today - grace days) > lapsed.
+ * Each predicate is a plain range on `paid_through` so the (club_id, paid_through) index serves it.
+ * Needs the bind parameters `$today` (YYYY-MM-DD in the club's time zone) and `$graceDays`.
+ */
+const STANDING = 'm.suspended_at IS NULL AND m.resigned_at IS NULL'
+const GRACE_FROM = '(CAST($today AS date) - CAST($graceDays AS integer))'
+export const STATUS_SQL: Record<MembershipStatus, string> = {
+  suspended: 'm.suspended_at IS NOT NULL',
+  resigned: 'm.suspended_at IS NULL AND m.resigned_at IS NOT NULL',
+  pending: `${STANDING} AND m.paid_through IS NULL`,
+  active: `${STANDING} AND m.paid_through >= CAST($today AS date)`,
+  grace: `${STANDING} AND m.paid_through < CAST($today AS date) AND m.paid_through >= ${GRACE_FROM}`,
+  lapsed: `${STANDING} AND m.paid_through < ${GRACE_FROM}`,
+}
+
+/** ORDER BY for each sort field; the membership id breaks ties so pages never overlap or skip. */
+const ORDER_SQL: Record<MemberDirectoryQuery['sort'], (dir: 'ASC' | 'DESC') => string> = {
+  name: dir => `lower(u.name) ${dir}, m.id ${dir}`,
+  email: dir => `lower(u.email) ${dir}, m.id ${dir}`,
+  // Never-paid members (no date) come last whichever way the dates run.
+  paidThrough: dir => `m.paid_through ${dir} NULLS LAST, m.id ${dir}`,
+  joined: dir => `m.created_at ${dir}, m.id ${dir}`,
+}
+
+/** `text` as a LIKE pattern that matches it anywhere, with LIKE's wildcards taken literally. */
+function containsPattern(text: string): string {
+  return `%${text.toLowerCase().replace(/[\\%_]/g, c => `\\${c}`)}%`
+}
+
+interface DirectoryRow {
+  id: string
+  roles: string[]
+  paid_through: string | null
+  suspended_at: Date | null
+  resigned_at: Date | null
+  birth_date: string | null
+  created_at: Date
+  name: string
+  email: string
+}
+
+/**
+ * One page of club `club`'s member directory: filtered by status, role and a case-insensitive
+ * substring of name or e-mail, sorted, paged. Two queries — a COUNT and the page — and never the
+ * whole table; the status filter uses STATUS_SQL with "today" in the club's time zone.
+ */
+export async function listMembers(
+  club: Pick<Club, 'id' | 'timeZone' | 'graceDays'>,
+  query: MemberDirectoryQuery,
+  now = new Date(),
+): Promise<Paged<MemberListItemDto>> {
+  const bind: Record<string, unknown> = { clubId: club.id }
+  const where = ['m.club_id = $clubId']
+  if (query.status) {
+    where.push(`(${STATUS_SQL[query.status]})`)
+    bind.today = dateInZone(now, club.timeZone)
+    bind.graceDays = club.graceDays
+  }
+  if (query.role) {
+    where.push('m.roles @> ARRAY[CAST($role AS text)]')
+    bind.role = query.role
+  }
+  const q = query.q?.split('\u0000').join('').trim()
+  if (q) {
+    // Both sides are served by the trigram GIN indexes on lower(name) and lower(email).
+    where.push('(lower(u.name) LIKE $pattern OR lower(u.email) LIKE $pattern)')
+    bind.pattern = containsPattern(q)
+  }
+  const from = `FROM memberships m ${q ? 'JOIN users u ON u.id = m.user_id' : ''} WHERE ${where.join(' AND ')}`
+  const db = useDb()
+  const [counted] = await db.query<{ total: number }>(`SELECT count(*)::int AS total ${from}`, { bind, type: QueryTypes.SELECT })
+  const total = counted?.total ?? 0
+  const offset = (query.page - 1) * query.pageSize
+  const rows = offset >= total
+    ? []
+    : await db.query<DirectoryRow>(`
+      SELECT m.id, m.roles, m.paid_through::text AS paid_through, m.suspended_at, m.resigned_at,
+             m.birth_date::text AS birth_date, m.created_at, u.name, u.email
+      FROM memberships m JOIN users u ON u.id = m.user_id
+      WHERE ${where.join(' AND ')}
+      ORDER BY ${ORDER_SQL[query.sort](query.dir === 'desc' ? 'DESC' : 'ASC')}
+      LIMIT $limit OFFSET $offset`, { bind: { ...bind, limit: query.pageSize, offset }, type: QueryTypes.SELECT })
+  return {
+    items: rows.map(r => toMemberListItem({
+      id: r.id,
+      roles: r.roles as MemberListItemDto['roles'],
+      paidThrough: r.paid_through,
+      suspendedAt: r.suspended_at,
+      resignedAt: r.resigned_at,
+      birthDate: r.birth_date,
+      createdAt: r.created_at,
+      user: { name: r.name, email: r.email },
+    }, club)),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  }
+}
