@@ -17,8 +17,8 @@ await setup({
   },
 })
 
-async function signInAsAdmin() {
-  const page = await createPage('/login')
+async function signInAsAdmin(viewport?: { width: number, height: number }) {
+  const page = await createPage('/login', viewport ? { viewport } : undefined)
   await page.getByTestId('field-email').fill(DEMO.admin)
   await page.getByTestId('field-password').fill(DEMO.password)
   await page.getByTestId('login-submit').click()
@@ -87,6 +87,18 @@ describe('the member directory and member page', () => {
     await page.getByTestId('pager-next').click()
     await page.waitForURL(url => url.searchParams.get('page') === '2')
     expect(await page.getByTestId('pager-status').textContent()).toMatch(/11–20 of \d+/)
+    await page.close()
+  })
+
+  it('on a 360 px phone shows the members as cards with their own sort control, without sideways scrolling', async () => {
+    const page = await signInAsAdmin({ width: 360, height: 780 })
+    await page.goto(new URL('/members?pageSize=10', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await expect.poll(() => page.getByTestId('member-row').count()).toBe(10)
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360)
+    expect(await page.getByTestId('sort-name').isVisible()).toBe(false)
+    await page.getByTestId('member-sort').selectOption('joined:desc')
+    await page.waitForURL(url => url.searchParams.get('sort') === 'joined' && url.searchParams.get('dir') === 'desc')
+    expect(await page.getByTestId('member-row').first().textContent()).toContain('Joined')
     await page.close()
   })
 })
