@@ -1,22 +1,14 @@
 import { QueryTypes } from 'sequelize'
 import { actorCan, type Actor } from '../utils/auth'
 import { loadStanding } from './standing'
+import { statusCaseSql } from './membership-status-sql'
 import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '../../shared/utils/membership-status'
 import type { DashboardDto, StandingDto } from '../../shared/types/dto'
 
 type Card = DashboardDto['cards'][number]
 
-/**
- * The status function (shared/utils/membership-status.ts) as SQL over `memberships m`, for counts.
- * Needs the replacements :today (the club's calendar date) and :graceDays. Keep the two in step.
- */
-export const MEMBERSHIP_STATUS_SQL = `CASE
-  WHEN m.suspended_at IS NOT NULL THEN 'suspended'
-  WHEN m.resigned_at IS NOT NULL THEN 'resigned'
-  WHEN m.paid_through IS NULL THEN 'pending'
-  WHEN m.paid_through >= CAST(:today AS date) THEN 'active'
-  WHEN m.paid_through + CAST(:graceDays AS integer) >= CAST(:today AS date) THEN 'grace'
-  ELSE 'lapsed' END`
+// The status function as SQL (its one copy), with this file's replacements.
+const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
 
 const STATUS_HINTS: Record<MembershipStatus, string> = {
   pending: 'Signed up, first dues not paid yet.',

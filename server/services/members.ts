@@ -26,17 +26,21 @@ export async function waiverStanding(clubId: string, membershipId: string): Prom
   }
 }
 
-/** The directory row for a membership loaded with its user. */
-export function toMemberListItem(m: Membership & { user: User }, club: Club): MemberListItemDto {
+/** What a directory row is built from: a membership (model or raw row) with its user's name and e-mail. */
+export type MemberListSource = Pick<Membership, 'id' | 'roles' | 'paidThrough' | 'suspendedAt' | 'resignedAt' | 'birthDate' | 'createdAt'>
+  & { user: Pick<User, 'name' | 'email'> }
+
+/** The directory row for a membership loaded with its user, with its status at `now`. */
+export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone' | 'graceDays'>, now = new Date()): MemberListItemDto {
   return {
     id: m.id,
     name: m.user.name,
     email: m.user.email,
     roles: normaliseRoles(m.roles),
-    status: membershipStatus(m, { timeZone: club.timeZone, graceDays: club.graceDays }),
+    status: membershipStatus(m, { timeZone: club.timeZone, graceDays: club.graceDays, now }),
     paidThrough: m.paidThrough,
     joinedOn: dateInZone(m.createdAt, club.timeZone),
-    junior: isJunior(m, club),
+    junior: isJunior(m, club, now),
   }
 }
 

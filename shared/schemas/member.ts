@@ -19,7 +19,8 @@ export type Profile = z.infer<typeof ProfileSchema>
 
 /** What an admin edits on a member: the profile plus birth date and guardian. */
 export const MemberEditSchema = ProfileSchema.extend({
-  birthDate: isoDate.nullable().optional(),
+  // '' (a cleared date input) clears the birth date.
+  birthDate: z.preprocess(v => (v === '' ? null : v), isoDate.nullable().optional()),
   guardianName: optionalText(120),
   guardianEmail: z.union([emailField, z.literal('')]).transform(v => (v === '' ? null : v)).nullable().optional(),
 }).partial().refine(v => Object.keys(v).length > 0, 'Nothing to change')

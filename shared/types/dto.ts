@@ -96,6 +96,8 @@ export interface AuditEventDto {
   action: string
   subjectType: string
   subjectId: string | null
+  /** A readable name for the subject (the member's name for a membership), when there is one. */
+  subjectName?: string | null
   before: Record<string, unknown> | null
   after: Record<string, unknown> | null
   reason: string | null

@@ -49,6 +49,16 @@ const MATRIX: Record<string, Row> = {
   'POST /api/waivers/accept': signedIn(400),
   'GET /api/waivers': only(200, 'safety'),
   'POST /api/waivers': only(400, 'safety'), // an empty body: nothing is published in the demo club
+  'GET /api/members': only(200, 'instructor', 'safety', 'admin'),
+  'GET /api/members/[id]': only(200, 'instructor', 'safety', 'admin'), // another member's page
+  'PATCH /api/members/[id]': only(400, 'admin'),
+  'POST /api/members/[id]/approve': only(400, 'admin'),
+  'POST /api/members/[id]/suspend': only(400, 'admin'),
+  'POST /api/members/[id]/reinstate': only(400, 'admin'),
+  'POST /api/members/[id]/resign': only(400, 'admin'),
+  'POST /api/members/[id]/rejoin': only(400, 'admin'),
+  'PUT /api/members/[id]/roles': only(400, 'admin'),
+  'GET /api/audit': only(200, 'safety', 'admin'),
 }
 
 let subjectId = ''

@@ -1,0 +1,66 @@
+import { QueryTypes } from 'sequelize'
+import type { AuditQuery } from '../../shared/schemas/audit'
+import type { AuditEventDto, Paged } from '../../shared/types/dto'
+
+interface AuditRow {
+  id: string
+  actor_name: string
+  action: string
+  subject_type: string
+  subject_id: string | null
+  subject_name: string | null
+  before: Record<string, unknown> | null
+  after: Record<string, unknown> | null
+  reason: string | null
+  created_at: Date
+}
+
+/**
+ * One page of club `clubId`'s audit trail, newest first (id breaks ties), optionally only one action
+ * and/or one subject. A COUNT and a page query on the (club_id, created_at) index.
+ */
+export async function listAuditEvents(clubId: string, query: AuditQuery): Promise<Paged<AuditEventDto>> {
+  const bind: Record<string, unknown> = { clubId }
+  const where = ['a.club_id = $clubId']
+  if (query.action) {
+    where.push('a.action = $action')
+    bind.action = query.action
+  }
+  if (query.subjectId) {
+    where.push('a.subject_id = $subjectId')
+    bind.subjectId = query.subjectId
+  }
+  const db = useDb()
+  const [counted] = await db.query<{ total: number }>(
+    `SELECT count(*)::int AS total FROM audit_events a WHERE ${where.join(' AND ')}`, { bind, type: QueryTypes.SELECT })
+  const total = counted?.total ?? 0
+  const offset = (query.page - 1) * query.pageSize
+  const rows = offset >= total
+    ? []
+    : await db.query<AuditRow>(`
+      SELECT a.id, a.actor_name, a.action, a.subject_type, a.subject_id, u.name AS subject_name,
+             a.before, a.after, a.reason, a.created_at
+      FROM audit_events a
+      LEFT JOIN memberships m ON a.subject_type = 'membership' AND m.id = a.subject_id AND m.club_id = a.club_id
+      LEFT JOIN users u ON u.id = m.user_id
+      WHERE ${where.join(' AND ')}
+      ORDER BY a.created_at DESC, a.id DESC
+      LIMIT $limit OFFSET $offset`, { bind: { ...bind, limit: query.pageSize, offset }, type: QueryTypes.SELECT })
+  return {
+    items: rows.map(r => ({
+      id: r.id,
+      actorName: r.actor_name,
+      action: r.action,
+      subjectType: r.subject_type,
+      subjectId: r.subject_id,
+      subjectName: r.subject_name,
+      before: r.before,
+      after: r.after,
+      reason: r.reason,
+      createdAt: new Date(r.created_at).toISOString(),
+    })),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  }
+}

@@ -1,0 +1,104 @@
+import { randomUUID } from 'node:crypto'
+import { describe, expect, inject, it } from 'vitest'
+import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { makeMember } from '../support/factories'
+import { sql } from '../support/db'
+import { DEMO } from '../support/test-env'
+
+await setup({
+  host: inject('baseUrl'),
+  browser: true,
+  browserOptions: {
+    type: 'chromium',
+    launch: {
+      executablePath: '/usr/bin/chromium',
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    },
+  },
+})
+
+async function signInAsAdmin(viewport?: { width: number, height: number }) {
+  const page = await createPage('/login', viewport ? { viewport } : undefined)
+  await page.getByTestId('field-email').fill(DEMO.admin)
+  await page.getByTestId('field-password').fill(DEMO.password)
+  await page.getByTestId('login-submit').click()
+  await page.waitForURL(url => url.pathname === '/')
+  return page
+}
+
+describe('the member directory and member page', () => {
+  it('an admin searches, opens a member, suspends them with a reason after confirming, and sees the status change', async () => {
+    const tag = randomUUID().slice(0, 8)
+    const member = await makeMember({ name: `Wrenna Tidepool ${tag}` })
+    const page = await signInAsAdmin()
+
+    await page.goto(new URL('/members', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await page.getByTestId('member-search').fill(`tidepool ${tag}`)
+    // The search is debounced and lands in the URL, so the view can be shared.
+    await page.waitForURL(url => url.searchParams.get('q') === `tidepool ${tag}`)
+    const rows = page.getByTestId('member-row')
+    await expect.poll(() => rows.count()).toBe(1)
+    await expect.poll(() => page.getByTestId('members-total').textContent()).toContain('1 member')
+    await expect.poll(() => rows.first().getByTestId('status-active').textContent()).toBe('Active')
+
+    await page.getByTestId(`member-link-${member.memberId}`).click()
+    await page.waitForURL(url => url.pathname === `/members/${member.memberId}`)
+    await expect.poll(() => page.getByTestId('member-name').textContent()).toContain(member.name)
+    expect(await page.getByTestId('member-status').textContent()).toBe('Active')
+
+    await page.getByTestId('action-suspend').click()
+    const dialog = page.getByTestId('action-dialog')
+    await dialog.getByTestId('action-submit').click()
+    await expect.poll(() => dialog.getByTestId('error-reason').isVisible()).toBe(true)
+    await dialog.getByTestId('action-reason').fill('Filled above the event cap at the spring launch')
+    await dialog.getByTestId('action-submit').click()
+    // A destructive action asks once more before it goes through.
+    await expect.poll(() => dialog.getByTestId('action-confirm-text').textContent()).toContain(`Suspend ${member.name}?`)
+    const [before] = await sql<{ suspended_at: Date | null }>(`SELECT suspended_at FROM memberships WHERE id = $1`, [member.memberId])
+    expect(before!.suspended_at).toBeNull()
+    await dialog.getByTestId('action-submit').click()
+
+    await expect.poll(() => page.getByTestId('member-status').textContent()).toBe('Suspended')
+    expect(await page.getByTestId('standing-suspension').textContent()).toContain('Filled above the event cap at the spring launch')
+    expect(await dialog.isVisible()).toBe(false)
+    expect(await page.getByTestId('action-reinstate').isVisible()).toBe(true)
+    const [after] = await sql<{ suspended_reason: string }>(`SELECT suspended_reason FROM memberships WHERE id = $1`, [member.memberId])
+    expect(after!.suspended_reason).toBe('Filled above the event cap at the spring launch')
+
+    // Back in the directory the same search now shows the suspension as text.
+    await page.goBack()
+    await page.waitForURL(url => url.pathname === '/members')
+    await expect.poll(() => page.getByTestId('member-row').first().getByTestId('status-suspended').textContent()).toBe('Suspended')
+    await page.close()
+  })
+
+  it('sorts by a column header, keeps it in the URL and marks the header with aria-sort', async () => {
+    const page = await signInAsAdmin()
+    await page.goto(new URL('/members?pageSize=10', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    const header = page.locator('th', { has: page.getByTestId('sort-paidThrough') })
+    expect(await header.getAttribute('aria-sort')).toBe('none')
+    await page.getByTestId('sort-paidThrough').click()
+    await page.waitForURL(url => url.searchParams.get('sort') === 'paidThrough')
+    await expect.poll(() => header.getAttribute('aria-sort')).toBe('ascending')
+    await page.getByTestId('sort-paidThrough').click()
+    await page.waitForURL(url => url.searchParams.get('dir') === 'desc')
+    await expect.poll(() => header.getAttribute('aria-sort')).toBe('descending')
+    await expect.poll(() => page.getByTestId('member-row').count()).toBe(10)
+    await page.getByTestId('pager-next').click()
+    await page.waitForURL(url => url.searchParams.get('page') === '2')
+    expect(await page.getByTestId('pager-status').textContent()).toMatch(/11–20 of \d+/)
+    await page.close()
+  })
+
+  it('on a 360 px phone shows the members as cards with their own sort control, without sideways scrolling', async () => {
+    const page = await signInAsAdmin({ width: 360, height: 780 })
+    await page.goto(new URL('/members?pageSize=10', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await expect.poll(() => page.getByTestId('member-row').count()).toBe(10)
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360)
+    expect(await page.getByTestId('sort-name').isVisible()).toBe(false)
+    await page.getByTestId('member-sort').selectOption('joined:desc')
+    await page.waitForURL(url => url.searchParams.get('sort') === 'joined' && url.searchParams.get('dir') === 'desc')
+    expect(await page.getByTestId('member-row').first().textContent()).toContain('Joined')
+    await page.close()
+  })
+})
