@@ -1,27 +1,16 @@
 import { randomUUID } from 'node:crypto'
 import { describe, expect, inject, it } from 'vitest'
-import { setup, createPage } from '@nuxt/test-utils/e2e'
+import { createPage } from '@nuxt/test-utils/e2e'
+import { setupBrowser, submitSignIn } from '../support/browser'
 import { makeMember } from '../support/factories'
 import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
-await setup({
-  host: inject('baseUrl'),
-  browser: true,
-  browserOptions: {
-    type: 'chromium',
-    launch: {
-      executablePath: '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
-    },
-  },
-})
+await setupBrowser()
 
 async function signInAsAdmin(viewport?: { width: number, height: number }) {
   const page = await createPage('/login', viewport ? { viewport } : undefined)
-  await page.getByTestId('field-email').fill(DEMO.admin)
-  await page.getByTestId('field-password').fill(DEMO.password)
-  await page.getByTestId('login-submit').click()
+  await submitSignIn(page, DEMO.admin, DEMO.password)
   await page.waitForURL(url => url.pathname === '/')
   return page
 }
