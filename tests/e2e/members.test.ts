@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
-import { describe, expect, inject, it } from 'vitest'
+import { describe, expect, it } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
-import { setupBrowser, submitSignIn } from '../support/browser'
+import { setupBrowser, submitSignIn, goTo } from '../support/browser'
 import { makeMember } from '../support/factories'
 import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
@@ -21,7 +21,7 @@ describe('the member directory and member page', () => {
     const member = await makeMember({ name: `Wrenna Tidepool ${tag}` })
     const page = await signInAsAdmin()
 
-    await page.goto(new URL('/members', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await goTo(page, '/members')
     await page.getByTestId('member-search').fill(`tidepool ${tag}`)
     // The search is debounced and lands in the URL, so the view can be shared.
     await page.waitForURL(url => url.searchParams.get('q') === `tidepool ${tag}`)
@@ -63,7 +63,7 @@ describe('the member directory and member page', () => {
 
   it('sorts by a column header, keeps it in the URL and marks the header with aria-sort', async () => {
     const page = await signInAsAdmin()
-    await page.goto(new URL('/members?pageSize=10', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await goTo(page, '/members?pageSize=10')
     const header = page.locator('th', { has: page.getByTestId('sort-paidThrough') })
     expect(await header.getAttribute('aria-sort')).toBe('none')
     await page.getByTestId('sort-paidThrough').click()
@@ -81,7 +81,7 @@ describe('the member directory and member page', () => {
 
   it('on a 360 px phone shows the members as cards with their own sort control, without sideways scrolling', async () => {
     const page = await signInAsAdmin({ width: 360, height: 780 })
-    await page.goto(new URL('/members?pageSize=10', inject('baseUrl')).href, { waitUntil: 'hydration' } as never)
+    await goTo(page, '/members?pageSize=10')
     await expect.poll(() => page.getByTestId('member-row').count()).toBe(10)
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360)
     expect(await page.getByTestId('sort-name').isVisible()).toBe(false)
