@@ -49,7 +49,8 @@ export function mapDbError(error: unknown): never {
   if (error instanceof ValidationError) refuse({ code: 'INVALID_RECORD', message: error.message })
   if (error instanceof DatabaseError) {
     const code = (error.parent as { code?: string } | undefined)?.code
-    if (code === '23514' || code === '22001' || code === '22007' || code === '22008' || code === '22P02') {
+    // check violation, too long, bad date/time, out of range, bad text representation, NUL in text/JSON, bad encoding
+    if (['23514', '22001', '22003', '22007', '22008', '22P02', '22P05', '22021'].includes(code ?? '')) {
       refuse({ code: 'INVALID_RECORD', message: 'The database refused a value that is out of range.' })
     }
   }

@@ -1,7 +1,8 @@
 import { z } from 'zod'
 
 /** A UUID route parameter, e.g. `/api/members/:id`. */
-export const IdParamSchema = z.object({ id: z.string().uuid('Not a valid id') })
+// Lower-cased: PostgreSQL matches UUIDs in any case, so comparisons in code must see one spelling.
+export const IdParamSchema = z.object({ id: z.string().uuid('Not a valid id').transform(id => id.toLowerCase()) })
 export type IdParam = z.infer<typeof IdParamSchema>
 
 /** Optional text field: trims, turns '' into null, caps the length. */

@@ -30,6 +30,7 @@ const PAYLOADS: [string, string | object][] = [
   ['wrong types', wrongTypes],
   ['missing fields', {}],
   ['oversize strings', oversize],
+  ['NUL and other control characters', { ...Object.fromEntries(FIELDS.map(f => [f, 'Ann\u0000\u001B'])), roles: ['member'], version: 1 }],
 ]
 
 let actor: MadeMember
