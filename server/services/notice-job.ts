@@ -7,8 +7,8 @@ import { runNoticeQueue } from './notice-queue'
  * the outbox's "run now" (the admin's club). Safe to run twice at once: scans are idempotent and the
  * queue claims rows with SKIP LOCKED.
  */
-export async function runNoticeJob(opts: { clubId?: string, now?: Date } = {}): Promise<NoticeRunDto> {
+export async function runNoticeJob(opts: { clubId?: string, now?: Date, maxNotices?: number } = {}): Promise<NoticeRunDto> {
   const queued = await runNoticeScans(opts)
-  const run = await runNoticeQueue({ clubId: opts.clubId })
+  const run = await runNoticeQueue({ clubId: opts.clubId, maxNotices: opts.maxNotices })
   return { queued, ...run }
 }

@@ -80,7 +80,7 @@ export async function saveNoticeSettings(membershipId: string, optOuts: string[]
   const kinds = [...new Set(optOuts)]
   await useDb().transaction(async (transaction) => {
     // Whatever is not an optional kind (none today) is kept; the optional kinds are set as asked.
-    await useDb().query(`UPDATE memberships SET notice_opt_outs = ARRAY(SELECT k FROM unnest(notice_opt_outs) k WHERE k NOT IN (:optional) ORDER BY 1),
+    await useDb().query(`UPDATE memberships SET notice_opt_outs = ARRAY(SELECT k FROM unnest(notice_opt_outs) k WHERE NOT (k = ANY(ARRAY[:optional]::text[])) ORDER BY 1),
       updated_at = now() WHERE id = :id`, { replacements: { id: membershipId, optional: optionalNoticeKinds() }, transaction })
     if (kinds.length) await addOptOuts(membershipId, kinds, transaction)
   })

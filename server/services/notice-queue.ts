@@ -79,11 +79,18 @@ async function recordFailure(notice: ClaimedNotice, error: unknown, message: str
  * backoff and ends the run: nothing is lost and nothing is sent twice. A permanent rejection (5xx)
  * marks it `failed`; a member who opted out after it was queued makes it `skipped`.
  */
-export async function runNoticeQueue(opts: { clubId?: string } = {}): Promise<QueueRun> {
+export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: number } = {}): Promise<QueueRun> {
   const result: QueueRun = { sent: 0, retried: 0, failed: 0, skipped: 0 }
+  let handled = 0
   for (;;) {
+    // A bounded run (the outbox's "run now") leaves the rest to the background run it kicks.
+    if (opts.maxNotices !== undefined && handled >= opts.maxNotices) {
+      kickNoticeQueue()
+      return result
+    }
     const batch = await claimDue(BATCH, opts.clubId)
     if (!batch.length) return result
+    handled += batch.length
     for (const [index, notice] of batch.entries()) {
       if (optedOut(notice)) {
         await finish(notice.id, `status = 'skipped', last_error = 'The member opted out of this kind'`)
@@ -111,10 +118,18 @@ export async function runNoticeQueue(opts: { clubId?: string } = {}): Promise<Qu
 }
 
 let running: Promise<QueueRun> | null = null
+let again = false
 
-/** Starts a queue run in the background (after a notice is queued); one at a time per process. */
+/**
+ * Starts a queue run in the background (after a notice is queued); one at a time per process. A kick
+ * during a run asks for one more run after it, so a notice queued just as a run ends is not left
+ * waiting for the scheduled task.
+ */
 export function kickNoticeQueue(): void {
-  if (running) return
+  if (running) {
+    again = true
+    return
+  }
   running = runNoticeQueue()
     .catch((error) => {
       console.error('[notices] queue run failed:', (error as Error).message)
@@ -122,5 +137,9 @@ export function kickNoticeQueue(): void {
     })
     .finally(() => {
       running = null
+      if (again) {
+        again = false
+        kickNoticeQueue()
+      }
     })
 }

@@ -1,11 +1,18 @@
+import { createHmac } from 'node:crypto'
 import { QueryTypes, type Transaction } from 'sequelize'
 import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './notice-kinds'
 import { composeNotice } from './notice-render'
 import { optOutUrl } from './notice-opt-out'
 
-/** The key that signs opt-out links: the server's session secret (never sent to a browser). */
+let optOutKey: string | undefined
+
+/**
+ * The key that signs opt-out links: derived from the server's session secret, so it is never sent
+ * to a browser and an opt-out link never helps forge a session.
+ */
 export function optOutSecret(): string {
-  return useRuntimeConfig().session.password
+  optOutKey ??= createHmac('sha256', useRuntimeConfig().session.password).update('hoopwise:notice-opt-out').digest('hex')
+  return optOutKey
 }
 
 export interface EnqueueInput {
