@@ -16,7 +16,6 @@ export default defineNuxtConfig({
   css: ['~/assets/css/main.css'],
   runtimeConfig: {
     databaseUrl: '',
-    publicUrl: 'http://localhost:3000',
     smtpHost: '127.0.0.1',
     smtpPort: 1025,
     smtpUser: '',

@@ -1,6 +1,8 @@
 import type { FetchError } from 'ofetch'
+import type { RefusalBody } from '~~/shared/types/dto'
 
-interface ApiErrorData { message?: string, data?: { fields?: Record<string, string>, reasons?: { code: string, message: string }[] } }
+/** An error body from our routes: 400 carries `data.fields`, 422 carries `data.reasons`. */
+interface ApiErrorData { message?: string, data?: { fields?: Record<string, string> } & Partial<RefusalBody> }
 
 /**
  * Turns a failed $fetch into what a form shows: a message, field errors (400) and refusal

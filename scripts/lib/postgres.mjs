@@ -1,7 +1,7 @@
 // A private PostgreSQL cluster on loopback, in a git-ignored folder of the project.
 // Used by scripts/start.mjs, scripts/test.mjs and the tests that need a database of their own.
 import { execFileSync, spawnSync } from 'node:child_process'
-import { existsSync, mkdirSync, chownSync, writeFileSync } from 'node:fs'
+import { existsSync, mkdirSync, chownSync } from 'node:fs'
 import { join } from 'node:path'
 import { userInfo } from 'node:os'
 
@@ -89,8 +89,4 @@ export function recreateDatabase({ port, database }) {
   const binDir = ensurePostgresBinaries()
   runPg(binDir, 'dropdb', ['-h', '127.0.0.1', '-p', String(port), '-U', 'hoopwise', '--if-exists', '--force', database])
   runPg(binDir, 'createdb', ['-h', '127.0.0.1', '-p', String(port), '-U', 'hoopwise', database])
-}
-
-export function writeFileOnce(path, content) {
-  if (!existsSync(path)) writeFileSync(path, content)
 }

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize'
-import type { ClubPolicy } from '../../shared/schemas/club'
+import { ClubPolicySchema, type ClubPolicy } from '../../shared/schemas/club'
 
 /** A club: the tenant every other row belongs to. */
 export class Club extends Model {
@@ -23,7 +23,20 @@ export class Club extends Model {
       units: { type: DataTypes.TEXT, allowNull: false },
       publicUrl: { type: DataTypes.TEXT, allowNull: false },
       graceDays: { type: DataTypes.INTEGER, allowNull: false },
-      policy: { type: DataTypes.JSONB, allowNull: false },
+      policy: {
+        type: DataTypes.JSONB,
+        allowNull: false,
+        // The policy is a validated document: read with its defaults, refused on write when malformed.
+        get(this: Club) {
+          return ClubPolicySchema.parse(this.getDataValue('policy') ?? {})
+        },
+        validate: {
+          matchesPolicySchema(value: unknown) {
+            const result = ClubPolicySchema.safeParse(value)
+            if (!result.success) throw new Error(`Club policy: ${result.error.issues.map(i => `${i.path.join('.')} ${i.message}`).join('; ')}`)
+          },
+        },
+      },
     }, { sequelize, modelName: 'club', tableName: 'clubs', underscored: true })
   }
 }

@@ -1,4 +1,4 @@
-import { Waiver, WaiverAcceptance } from '../../models'
+import { User, Waiver, WaiverAcceptance } from '../../models'
 import type { SeedContext } from './context'
 import { DEMO_ACCOUNTS } from './members'
 
@@ -21,6 +21,9 @@ export async function seedWaiver(ctx: SeedContext): Promise<void> {
     transaction,
   })
   const demoEmails = new Set(DEMO_ACCOUNTS.map(a => a.email))
+  // Each acceptance carries the name the member typed: their own.
+  const users = await User.findAll({ where: { email: [...ctx.memberIds.keys()] }, transaction })
+  const nameOf = new Map(users.map(u => [u.email, u.name]))
   let i = 0
   for (const [email, membershipId] of ctx.memberIds) {
     i += 1
@@ -28,7 +31,7 @@ export async function seedWaiver(ctx: SeedContext): Promise<void> {
     if (!demoEmails.has(email) && i % 5 === 0) continue
     await WaiverAcceptance.findOrCreate({
       where: { waiverId: waiver.id, membershipId },
-      defaults: { clubId, typedName: email.split('@')[0]!, acceptedAt: new Date() },
+      defaults: { clubId, typedName: nameOf.get(email) ?? email, acceptedAt: new Date() },
       transaction,
     })
   }
