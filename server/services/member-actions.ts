@@ -1,12 +1,13 @@
 import type { Transaction } from 'sequelize'
 import { Membership, User } from '../models'
-import { dateInZone, membershipStatus, type MembershipStatus } from '../../shared/utils/membership-status'
+import { membershipStatus, type MembershipStatus } from '../../shared/utils/membership-status'
 import { normaliseRoles, type Role } from '../../shared/utils/permissions'
 import type { MemberEdit } from '../../shared/schemas/member'
 import type { MemberDto } from '../../shared/types/dto'
 import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
 import { recordAudit } from './audit'
+import { clubBaseUrl, clubToday } from './clubs'
 import { enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
 import { loadMemberDto } from './members'
@@ -82,10 +83,10 @@ async function queueApproval(actor: Actor, m: Membership, transaction: Transacti
     clubId: actor.club.id,
     membershipId: m.id,
     kind: 'signup_approved',
-    dueOn: dateInZone(new Date(), actor.club.timeZone),
+    dueOn: clubToday(actor.club),
     toEmail: user.email,
     optOuts: m.noticeOptOuts,
-    vars: { clubName: actor.club.name, memberName: user.name, baseUrl: actor.club.publicUrl.replace(/\/+$/, '') },
+    vars: { clubName: actor.club.name, memberName: user.name, baseUrl: clubBaseUrl(actor.club) },
   }, transaction)
 }
 
