@@ -71,7 +71,8 @@ async function queueVerification(club: Club, user: User, membership: Membership,
   }, transaction)
 }
 
-async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+/** Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside `transaction`. */
+export async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
   await enqueueNotice({
     clubId: club.id,
