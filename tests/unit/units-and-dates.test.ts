@@ -1,6 +1,7 @@
 import { beforeEach, describe, expect, it } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
-import { PA_PER_BAR, PA_PER_PSI, useUnitsStore } from '../../stores/units'
+import { useUnitsStore } from '../../stores/units'
+import { PA_PER_BAR, PA_PER_PSI, barToPsi, psiToBar } from '../../shared/utils/units'
 import { formatCalendarDate, formatInstant } from '../../shared/utils/dates'
 
 describe('the units store', () => {
@@ -9,8 +10,21 @@ describe('the units store', () => {
   })
 
   it('uses NIST SP 811\'s factor: 1 psi = 6 894.757 293 168 Pa, so 1 bar ≈ 14.503 77 psi', () => {
-    expect(PA_PER_PSI).toBe(6894.757293168)
+    expect(PA_PER_PSI).toBe(6894.757293168) // NIST SP 811 (2008) App. B.8
     expect(PA_PER_BAR / PA_PER_PSI).toBeCloseTo(14.503774, 6)
+  })
+
+  // Check values from ../shared/reference/check-values.md §4, source NIST SP 811 (2008) Appendix B.
+  it.each([
+    ['150 psi = 10.34 bar', () => psiToBar(150), 10.34, 2],
+    ['10 bar = 145.0 psi', () => barToPsi(10), 145.0, 1],
+    ['1 atm (101 325 Pa) = 14.70 psi', () => barToPsi(1.01325), 14.70, 2],
+  ] as const)('%s (NIST SP 811 App. B)', (_label, compute, expected, digits) => {
+    expect(compute()).toBeCloseTo(expected, digits)
+  })
+
+  it('converts there and back without drift', () => {
+    expect(psiToBar(barToPsi(17))).toBeCloseTo(17, 12)
   })
 
   it.each([
