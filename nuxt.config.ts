@@ -26,6 +26,9 @@ export default defineNuxtConfig({
     loginMaxPerAccount: 5,
     loginMaxPerAddress: 20,
     loginWindowSeconds: 900,
+    // Sign-ups and password-reset requests allowed per address in an hour.
+    signupMaxPerAddress: 10,
+    resetRequestMaxPerAddress: 10,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

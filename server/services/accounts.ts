@@ -1,15 +1,15 @@
-import { Op, UniqueConstraintError, col, fn, where, type Transaction } from 'sequelize'
-import { ZodError } from 'zod'
+import type { H3Event } from 'h3'
+import { Op, UniqueConstraintError, col, fn, literal, where, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../models'
 import type { Actor } from '../utils/auth'
-import { dateInZone } from '../../shared/utils/membership-status'
-import { isUnder18, type Signup } from '../../shared/schemas/auth'
-import type { SessionUser } from '../../shared/types/session'
+import { isJunior } from '../../shared/utils/membership-status'
+import type { Signup } from '../../shared/schemas/auth'
 import type { EmailVerifiedDto, GuardianConsentDto } from '../../shared/types/accounts'
 import { recordAudit } from './audit'
+import { clubBaseUrl, clubToday, homeClub } from './clubs'
 import { enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
-import { sessionUserFor } from './sessions'
+import { sessionFor, type SessionStart } from './sessions'
 import { consumeToken, issueToken, peekToken, recentTokenCount, revokeTokens } from './tokens'
 
 /** The message for a sign-up with an e-mail already in use: says no more than that. */
@@ -21,29 +21,9 @@ const RESET_WINDOW_MINUTES = 15
 /** Fresh verification links a member may ask for per hour. */
 const RESEND_MAX_PER_HOUR = 5
 
-/**
- * The club sign-ups join: for now the one club of this deployment (the first created).
- * 503 when the database holds none (the seed has not run).
- */
-export async function homeClub(transaction?: Transaction): Promise<Club> {
-  useDb()
-  const club = await Club.findOne({ order: [['createdAt', 'ASC']], transaction })
-  if (!club) throw createError({ statusCode: 503, statusMessage: 'Service Unavailable', message: 'No club is set up yet' })
-  return club
-}
-
-/** Today's calendar date (YYYY-MM-DD) in the club's time zone. */
-export function clubToday(club: Pick<Club, 'timeZone'>, now = new Date()): string {
-  return dateInZone(now, club.timeZone)
-}
-
 /** The e-mailed link to `path` on the club's public address (never the request's host). */
 export function linkFor(club: Pick<Club, 'publicUrl'>, path: string, token: string): string {
-  return `${baseUrlOf(club)}${path}?token=${encodeURIComponent(token)}`
-}
-
-function baseUrlOf(club: Pick<Club, 'publicUrl'>): string {
-  return club.publicUrl.replace(/\/+$/, '')
+  return `${clubBaseUrl(club)}${path}?token=${encodeURIComponent(token)}`
 }
 
 /** The account whose e-mail is `email`, whatever its case. */
@@ -52,13 +32,30 @@ export async function findUserByEmail(email: string, transaction?: Transaction):
   return User.findOne({ where: { [Op.and]: [where(fn('lower', col('email')), email.toLowerCase())] }, transaction })
 }
 
+// Verified against when the e-mail is unknown, so a miss costs the same scrypt time as a wrong password.
+let dummyHash: Promise<string> | undefined
+
+/**
+ * Checks an e-mail and password from `address` and returns the session to start. The attempt is
+ * spent against the account and the address BEFORE the slow hash check, so a burst of parallel
+ * guesses cannot outrun the limit (429), and given back when the password is right. 401 for any
+ * mismatch, the same whether or not the e-mail has an account.
+ */
+export async function signIn(email: string, password: string, address: string): Promise<SessionStart> {
+  const account = email.toLowerCase()
+  await claimLoginAttempt(account, address)
+  const user = await findUserByEmail(account)
+  dummyHash ??= hashPassword('not-a-real-password-0000')
+  const ok = user ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await dummyHash, password), false)
+  const session = ok && user ? await sessionFor(user) : null
+  if (!session) throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'E-mail or password is wrong' })
+  await loginSucceeded(account, address)
+  return session
+}
+
 /** The member as the actor of their own action (sign-up, password reset), for the audit trail. */
 function selfActor(user: User, membership: Membership, club: Club): Actor {
   return { user, membership, club, roles: ['member'], status: 'pending' }
-}
-
-function fieldError(field: string, message: string): never {
-  badInput(new ZodError([{ code: 'custom', path: [field], message }]))
 }
 
 async function queueVerification(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
@@ -70,11 +67,12 @@ async function queueVerification(club: Club, user: User, membership: Membership,
     subjectKey: issued.id,
     dueOn: clubToday(club),
     toEmail: user.email,
-    vars: { clubName: club.name, memberName: user.name, baseUrl: baseUrlOf(club), actionUrl: linkFor(club, '/verify-email', issued.token) },
+    vars: { clubName: club.name, memberName: user.name, baseUrl: clubBaseUrl(club), actionUrl: linkFor(club, '/verify-email', issued.token) },
   }, transaction)
 }
 
-async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+/** Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside `transaction`. */
+export async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
   await enqueueNotice({
     clubId: club.id,
@@ -87,24 +85,23 @@ async function queueGuardianConsent(club: Club, user: User, membership: Membersh
       clubName: club.name,
       memberName: user.name,
       guardianName: membership.guardianName ?? undefined,
-      baseUrl: baseUrlOf(club),
+      baseUrl: clubBaseUrl(club),
       actionUrl: linkFor(club, '/guardian-consent', issued.token),
     },
   }, transaction)
 }
 
-export interface SignupOutcome { sessionUser: SessionUser, verificationSentTo: string, guardianConsentSentTo: string | null }
+export interface SignupOutcome { session: SessionStart, verificationSentTo: string, guardianConsentSentTo: string | null }
 
 /**
  * Creates the account and a pending membership (not yet approved, never paid) in `club`, in one
  * transaction with the verification notice — and, for a junior, the guardian's consent notice —
- * then starts the notice queue once committed. 409 when the e-mail is taken (whatever its case);
- * 400 on the guardian fields when a junior (under 18 in the club's time zone) leaves them out.
+ * then starts the notice queue once committed. 409 when the e-mail is taken (whatever its case).
+ * `input` has passed `signupSchemaFor(clubToday(club))`, which already makes a junior (under 18 in
+ * the club's time zone) name a guardian: the date only moves on, so a junior here was one there.
  */
 export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> {
-  const junior = isUnder18(input.birthDate, clubToday(club))
-  if (junior && !input.guardianName) fieldError('guardianName', 'Members under 18 name a parent or guardian')
-  if (junior && !input.guardianEmail) fieldError('guardianEmail', 'Enter the guardian\'s e-mail: we ask them for consent')
+  const junior = isJunior(input.birthDate, clubToday(club))
   if (await findUserByEmail(input.email)) conflict(EMAIL_TAKEN_MESSAGE)
   const passwordHash = await hashPassword(input.password)
   let user: User
@@ -136,9 +133,9 @@ export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> 
     mapDbError(error)
   }
   kickNoticeQueue()
-  const sessionUser = await sessionUserFor(user)
-  if (!sessionUser) throw new Error('sign-up left the account without a membership')
-  return { sessionUser, verificationSentTo: user.email, guardianConsentSentTo: junior ? input.guardianEmail ?? null : null }
+  const session = await sessionFor(user)
+  if (!session) throw new Error('sign-up left the account without a membership')
+  return { session, verificationSentTo: user.email, guardianConsentSentTo: junior ? input.guardianEmail ?? null : null }
 }
 
 /** Confirms the e-mail address the link was sent to. The link works once (422 when used, expired or unknown). */
@@ -167,8 +164,8 @@ export async function resendVerification(actor: Actor): Promise<{ sentTo: string
 
 /**
  * Queues a password-reset link when an account with membership in the club uses `email`; does
- * nothing otherwise. Callers answer the same either way, so the reply never reveals an account.
- * Repeated requests beyond a few in a short window send nothing more (no inbox flooding).
+ * nothing otherwise. Repeated requests beyond a few in a short window send nothing more (no inbox
+ * flooding). Routes call `requestPasswordResetAfterReply` instead, so the reply never waits on it.
  */
 export async function requestPasswordReset(email: string): Promise<void> {
   const club = await homeClub()
@@ -186,18 +183,33 @@ export async function requestPasswordReset(email: string): Promise<void> {
       subjectKey: issued.id,
       dueOn: clubToday(club),
       toEmail: user.email,
-      vars: { clubName: club.name, memberName: user.name, baseUrl: baseUrlOf(club), actionUrl: linkFor(club, '/reset-password', issued.token) },
+      vars: { clubName: club.name, memberName: user.name, baseUrl: clubBaseUrl(club), actionUrl: linkFor(club, '/reset-password', issued.token) },
     }, transaction)
   })
   kickNoticeQueue()
 }
 
 /**
+ * Starts `requestPasswordReset(email)` without waiting for it: a known and an unknown e-mail are
+ * answered in the same time, so the reply's timing never reveals an account. A failure is logged
+ * (the member can ask again); the queue is kicked once the link is queued.
+ */
+export function requestPasswordResetAfterReply(event: H3Event, email: string): void {
+  event.waitUntil(requestPasswordReset(email).catch((error: unknown) => {
+    console.error('[accounts] a password-reset request failed:', error)
+  }))
+}
+
+/**
  * Sets a new password from an e-mailed reset link: uses the link once, stops every other reset
- * link of the account, confirms the e-mail (the link proved it), clears the sign-in failures and
- * records the change in the audit trail — all in one transaction. 422 when the link cannot be used.
+ * link of the account, confirms the e-mail (the link proved it), ends every session begun before
+ * (the session version goes up), clears the sign-in failures and records the change in the audit
+ * trail — all in one transaction. 422 when the link cannot be used.
  */
 export async function resetPassword(token: string, password: string): Promise<void> {
+  // Look at the link before the slow hash (a dead link costs no scrypt), and hash before the
+  // transaction (no transaction waits on it); the conditional consume below still settles races.
+  await peekToken(token, 'reset_password')
   const passwordHash = await hashPassword(password)
   const email = await useDb().transaction(async (transaction) => {
     const row = await consumeToken(token, 'reset_password', transaction)
@@ -205,7 +217,11 @@ export async function resetPassword(token: string, password: string): Promise<vo
     const membership = row.membershipId
       ? await Membership.findByPk(row.membershipId, { transaction, include: [{ model: Club, as: 'club' }] })
       : null
-    await user.update({ passwordHash, emailVerifiedAt: user.emailVerifiedAt ?? new Date() }, { transaction })
+    await User.update({
+      passwordHash,
+      emailVerifiedAt: user.emailVerifiedAt ?? new Date(),
+      sessionVersion: literal('session_version + 1'),
+    }, { where: { id: user.id }, transaction })
     const revoked = await revokeTokens(user.id, 'reset_password', transaction)
     if (membership?.club) {
       await recordAudit(selfActor(user, membership, membership.club), membership.clubId, {

@@ -1,15 +1,19 @@
 import type { Transaction } from 'sequelize'
+import { ZodError } from 'zod'
 import { Membership, User } from '../models'
-import { dateInZone, membershipStatus, type MembershipStatus } from '../../shared/utils/membership-status'
-import { normaliseRoles, type Role } from '../../shared/utils/permissions'
-import type { MemberEdit } from '../../shared/schemas/member'
+import { isJunior, membershipStatus, statusKeepsRights, type MembershipStatus } from '../../shared/utils/membership-status'
+import { normaliseRoles, rolesCan, type Capability, type Role } from '../../shared/utils/permissions'
+import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type MemberEdit } from '../../shared/schemas/member'
 import type { MemberDto } from '../../shared/types/dto'
 import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
 import { recordAudit } from './audit'
+import { clubBaseUrl, clubToday } from './clubs'
 import { enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
 import { loadMemberDto } from './members'
+import { queueGuardianConsent } from './accounts'
+import { revokeTokens } from './tokens'
 
 export const MEMBERSHIP_ACTIONS = ['approve', 'suspend', 'reinstate', 'resign', 'rejoin'] as const
 export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
@@ -17,6 +21,8 @@ export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
 type Changes = Partial<Pick<Membership, 'approvedAt' | 'suspendedAt' | 'suspendedReason' | 'resignedAt'>>
 
 interface ActionRule {
+  /** The audit-trail action it records (a literal, so tests/unit/audit-actions.test.ts finds it). */
+  action: string
   /** Why the action is refused for this membership, or null when it may go ahead. */
   refusal: (m: Membership, status: MembershipStatus, actor: Actor) => Reason | null
   /** The columns the action sets. */
@@ -29,6 +35,7 @@ const selfAction = (m: Membership, actor: Actor, verb: string): Reason | null =>
 /** The membership actions an admin takes, each with the rule that may refuse it. */
 const RULES: Record<MembershipActionName, ActionRule> = {
   approve: {
+    action: 'member.approve',
     refusal: (m, status) => {
       if (m.approvedAt) return { code: 'ALREADY_APPROVED', message: 'This sign-up has already been approved.' }
       if (status !== 'pending') return { code: 'NOT_PENDING', message: `Only a pending sign-up can be approved; this membership is ${status}.` }
@@ -37,21 +44,25 @@ const RULES: Record<MembershipActionName, ActionRule> = {
     changes: (_reason, now) => ({ approvedAt: now }),
   },
   suspend: {
+    action: 'member.suspend',
     refusal: (m, status, actor) => selfAction(m, actor, 'suspend')
       ?? (status === 'suspended' ? { code: 'ALREADY_SUSPENDED', message: 'This membership is already suspended.' } : null)
       ?? (status === 'resigned' ? { code: 'MEMBER_RESIGNED', message: 'A resigned membership cannot be suspended.' } : null),
     changes: (reason, now) => ({ suspendedAt: now, suspendedReason: reason }),
   },
   reinstate: {
+    action: 'member.reinstate',
     refusal: m => (m.suspendedAt ? null : { code: 'NOT_SUSPENDED', message: 'Only a suspended membership can be reinstated.' }),
     changes: () => ({ suspendedAt: null, suspendedReason: null }),
   },
   resign: {
+    action: 'member.resign',
     refusal: (m, _status, actor) => selfAction(m, actor, 'resign')
       ?? (m.resignedAt ? { code: 'ALREADY_RESIGNED', message: 'This membership is already marked resigned.' } : null),
     changes: (_reason, now) => ({ resignedAt: now }),
   },
   rejoin: {
+    action: 'member.rejoin',
     refusal: m => (m.resignedAt ? null : { code: 'NOT_RESIGNED', message: 'Only a resigned membership can rejoin.' }),
     changes: () => ({ resignedAt: null }),
   },
@@ -60,9 +71,32 @@ const RULES: Record<MembershipActionName, ActionRule> = {
 const statusIn = (m: Pick<Membership, 'paidThrough' | 'suspendedAt' | 'resignedAt'>, actor: Actor) =>
   membershipStatus(m, { timeZone: actor.club.timeZone, graceDays: actor.club.graceDays })
 
-/** The membership `id` in the actor's club, locked for the rest of `transaction`; 404 when not there. */
-async function lockMembership(actor: Actor, id: string, transaction: Transaction): Promise<Membership> {
-  const m = await Membership.findOne({ where: { id, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
+/** Runs `work` in one transaction; a database error becomes 409/422 (mapDbError), never a 500. */
+function inTransaction<T>(work: (transaction: Transaction) => Promise<T>): Promise<T> {
+  return useDb().transaction(work).catch(mapDbError)
+}
+
+function forbid(capability: Capability): never {
+  throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: `You do not have the right to do this (${capability})` })
+}
+
+/**
+ * Locks the actor's and the target's membership rows FOR UPDATE, always in id order, then checks
+ * again on the locked row that the actor still holds `capability` and is neither suspended nor
+ * resigned (403 if not). Two admins acting on each other at once thus queue up instead of both
+ * going through on rights the other has just taken away. Returns the target row; 404 when `id` is
+ * not a membership of the actor's club.
+ */
+async function lockForAction(actor: Actor, id: string, capability: Capability, transaction: Transaction): Promise<Membership> {
+  const targetId = id.toLowerCase()
+  const rows = new Map<string, Membership>()
+  for (const rowId of [...new Set([actor.membership.id, targetId])].sort()) {
+    const row = await Membership.findOne({ where: { id: rowId, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
+    if (row) rows.set(row.id, row)
+  }
+  const self = rows.get(actor.membership.id)
+  if (!self || !statusKeepsRights(statusIn(self, actor)) || !rolesCan(self.roles, capability)) forbid(capability)
+  const m = rows.get(targetId)
   if (!m) notFound('No such member')
   return m
 }
@@ -82,10 +116,10 @@ async function queueApproval(actor: Actor, m: Membership, transaction: Transacti
     clubId: actor.club.id,
     membershipId: m.id,
     kind: 'signup_approved',
-    dueOn: dateInZone(new Date(), actor.club.timeZone),
+    dueOn: clubToday(actor.club),
     toEmail: user.email,
     optOuts: m.noticeOptOuts,
-    vars: { clubName: actor.club.name, memberName: user.name, baseUrl: actor.club.publicUrl.replace(/\/+$/, '') },
+    vars: { clubName: actor.club.name, memberName: user.name, baseUrl: clubBaseUrl(actor.club) },
   }, transaction)
 }
 
@@ -96,8 +130,8 @@ async function queueApproval(actor: Actor, m: Membership, transaction: Transacti
  */
 export async function changeMembership(actor: Actor, id: string, action: MembershipActionName, reason: string): Promise<MemberDto> {
   const rule = RULES[action]
-  await useDb().transaction(async (transaction) => {
-    const m = await lockMembership(actor, id, transaction)
+  await inTransaction(async (transaction) => {
+    const m = await lockForAction(actor, id, 'members.manage', transaction)
     const status = statusIn(m, actor)
     const refusal = rule.refusal(m, status, actor)
     if (refusal) refuse(refusal)
@@ -106,7 +140,7 @@ export async function changeMembership(actor: Actor, id: string, action: Members
     for (const key of Object.keys(changes) as (keyof Changes)[]) before[key] = m[key]
     await m.update(changes, { transaction })
     await recordAudit(actor, actor.club.id, {
-      action: `member.${action}`,
+      action: rule.action,
       subjectType: 'membership',
       subjectId: m.id,
       before,
@@ -123,14 +157,38 @@ const USER_FIELDS = ['name'] as const
 const MEMBERSHIP_FIELDS = ['phone', 'emergencyContactName', 'emergencyContactPhone', 'unitPreference', 'birthDate',
   'guardianName', 'guardianEmail'] as const
 
+/** 400 with field messages for `issues` (the same body shape as a schema failure). */
+function refuseFields(issues: FieldIssue[]): never {
+  badInput(new ZodError(issues.map(i => ({ code: 'custom' as const, path: [i.path], message: i.message }))))
+}
+
+/**
+ * Stops the guardian's outstanding consent links, issues a fresh one to the current guardian
+ * e-mail and audits the request, inside `transaction`. The caller kicks the notice queue after commit.
+ */
+async function requestConsent(actor: Actor, m: Membership, user: User, reason: string, transaction: Transaction): Promise<void> {
+  const linksStopped = await revokeTokens(user.id, 'guardian_consent', transaction)
+  await queueGuardianConsent(actor.club, user, m, transaction)
+  await recordAudit(actor, actor.club.id, {
+    action: 'member.guardian_consent_request',
+    subjectType: 'membership',
+    subjectId: m.id,
+    after: { guardianName: m.guardianName, guardianEmail: m.guardianEmail, linksStopped },
+    reason,
+  }, transaction)
+}
+
 /**
  * Edits a member's details (name on the account; contact, birth date and guardian on the membership)
- * in one transaction. The audit event carries before and after of the fields that really changed;
- * nothing changed, nothing written.
+ * in one transaction. The audit event carries before and after of the fields that really changed
+ * and the optional reason; nothing changed, nothing written. 400 when the birth date lies in the
+ * future (the club's calendar) or a member who is under 18 after the edit lacks a guardian's name
+ * or e-mail. A new guardian e-mail clears the consent, stops the old consent links and sends the
+ * new guardian a fresh one.
  */
 export async function editMember(actor: Actor, id: string, edit: MemberEdit): Promise<MemberDto> {
-  await useDb().transaction(async (transaction) => {
-    const m = await lockMembership(actor, id, transaction)
+  const consentQueued = await inTransaction(async (transaction) => {
+    const m = await lockForAction(actor, id, 'members.manage', transaction)
     const user = await User.findByPk(m.userId, { transaction, lock: transaction.LOCK.UPDATE })
     if (!user) notFound('No such member')
     const before: Record<string, unknown> = {}
@@ -149,26 +207,69 @@ export async function editMember(actor: Actor, id: string, edit: MemberEdit): Pr
     }
     const userSet = diff(user, USER_FIELDS)
     const memberSet = diff(m, MEMBERSHIP_FIELDS)
-    if (!Object.keys(after).length) return
+    const today = clubToday(actor.club)
+    const next = { birthDate: m.birthDate, guardianName: m.guardianName, guardianEmail: m.guardianEmail, ...memberSet } as
+      Pick<Membership, 'birthDate' | 'guardianName' | 'guardianEmail'>
+    const future = futureBirthDateIssue(edit.birthDate, today)
+    const issues = future ? [future] : juniorGuardianIssues(next, today, user.email)
+    if (issues.length) refuseFields(issues)
+    if (!Object.keys(after).length) return false
+
+    const wasJunior = isJunior(m.birthDate, today)
+    const guardianChanged = 'guardianEmail' in memberSet
+    if (guardianChanged && m.guardianConsentAt) {
+      before.guardianConsentAt = new Date(m.guardianConsentAt).toISOString()
+      after.guardianConsentAt = null
+      memberSet.guardianConsentAt = null
+    }
     if (Object.keys(userSet).length) await user.update(userSet, { transaction })
     if (Object.keys(memberSet).length) await m.update(memberSet, { transaction })
-    await recordAudit(actor, actor.club.id, { action: 'member.edit', subjectType: 'membership', subjectId: m.id, before, after }, transaction)
+    const reason = edit.reason ?? null
+    await recordAudit(actor, actor.club.id, { action: 'member.edit', subjectType: 'membership', subjectId: m.id, before, after, reason }, transaction)
+
+    // A new guardian (or a member who has just become a junior) is asked for consent afresh.
+    const askGuardian = isJunior(m.birthDate, today) && !!m.guardianEmail && !m.guardianConsentAt && (guardianChanged || !wasJunior)
+    if (askGuardian) {
+      await requestConsent(actor, m, user, reason ?? 'Guardian details changed: consent asked of the new guardian', transaction)
+    }
+    else if (guardianChanged) await revokeTokens(user.id, 'guardian_consent', transaction)
+    return askGuardian
   })
+  if (consentQueued) kickNoticeQueue()
+  return reload(actor, id)
+}
+
+/**
+ * E-mails the guardian of junior membership `id` a fresh consent link (the older links stop
+ * working), audited with `reason`. 422 NOT_JUNIOR, NO_GUARDIAN or ALREADY_CONSENTED when it does not apply.
+ */
+export async function resendGuardianConsent(actor: Actor, id: string, reason: string): Promise<MemberDto> {
+  await inTransaction(async (transaction) => {
+    const m = await lockForAction(actor, id, 'members.manage', transaction)
+    if (!isJunior(m.birthDate, clubToday(actor.club))) refuse({ code: 'NOT_JUNIOR', message: 'Only a member under 18 needs a guardian\'s consent.' })
+    if (!m.guardianEmail) refuse({ code: 'NO_GUARDIAN', message: 'No guardian e-mail is on record: add it under "Edit details" first.' })
+    if (m.guardianConsentAt) refuse({ code: 'ALREADY_CONSENTED', message: 'The guardian has already given their consent.' })
+    const user = await User.findByPk(m.userId, { transaction })
+    if (!user) notFound('No such member')
+    await requestConsent(actor, m, user, reason, transaction)
+  })
+  kickNoticeQueue()
   return reload(actor, id)
 }
 
 /**
  * Sets membership `id`'s roles ('member' is always kept) with an audit event holding the roles
- * before and after and the reason. Nobody changes their own roles (422 OWN_ROLES). Roles bite on the
- * member's next request, because requireMember reads them from the database every time.
+ * before and after and the reason. Nobody changes their own roles (422 OWN_ROLES, checked on the
+ * locked row). Roles bite on the member's next request, because requireMember reads them from the
+ * database every time.
  */
 export async function assignRoles(actor: Actor, id: string, roles: Role[], reason: string): Promise<MemberDto> {
-  if (id === actor.membership.id) {
-    refuse({ code: 'OWN_ROLES', message: 'You cannot change your own roles; another admin has to do it.' })
-  }
   const next = normaliseRoles(roles)
-  await useDb().transaction(async (transaction) => {
-    const m = await lockMembership(actor, id, transaction)
+  await inTransaction(async (transaction) => {
+    const m = await lockForAction(actor, id, 'roles.assign', transaction)
+    if (m.id === actor.membership.id) {
+      refuse({ code: 'OWN_ROLES', message: 'You cannot change your own roles; another admin has to do it.' })
+    }
     const current = normaliseRoles(m.roles)
     if (current.join() === next.join()) return
     await m.update({ roles: next }, { transaction })

@@ -1,8 +1,8 @@
 import { QueryTypes } from 'sequelize'
 import type { Club } from '../models'
-import { dateInZone } from '../../shared/utils/membership-status'
 import type { MemberDirectoryQuery } from '../../shared/schemas/member'
 import type { MemberListItemDto, Paged } from '../../shared/types/dto'
+import { clubToday } from './clubs'
 import { toMemberListItem } from './members'
 import { statusPredicates } from './membership-status-sql'
 
@@ -55,7 +55,7 @@ export function directoryStatements(
   const where = ['m.club_id = $clubId']
   if (query.status) {
     where.push(`(${STATUS_SQL[query.status]})`)
-    bind.today = dateInZone(now, club.timeZone)
+    bind.today = clubToday(club, now)
     bind.graceDays = club.graceDays
   }
   if (query.role) {

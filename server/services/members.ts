@@ -1,15 +1,11 @@
 import { QueryTypes } from 'sequelize'
 import { Club, Membership, User, Waiver } from '../models'
-import { membershipStatus, dateInZone, ageOn, ADULT_AGE } from '../../shared/utils/membership-status'
+import { membershipStatus, dateInZone, isJunior } from '../../shared/utils/membership-status'
 import { normaliseRoles } from '../../shared/utils/permissions'
+import { clubToday } from './clubs'
 import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '../../shared/types/dto'
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
-
-/** Whether the member is under 18 today in the club's time zone (unknown birth date: not a junior). */
-export function isJunior(membership: Pick<Membership, 'birthDate'>, club: Pick<Club, 'timeZone'>, now = new Date()): boolean {
-  return !!membership.birthDate && ageOn(membership.birthDate, dateInZone(now, club.timeZone)) < ADULT_AGE
-}
 
 /** The member's position against the club's current waiver version. */
 export async function waiverStanding(clubId: string, membershipId: string): Promise<WaiverStandingDto> {
@@ -40,7 +36,7 @@ export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone
     status: membershipStatus(m, { timeZone: club.timeZone, graceDays: club.graceDays, now }),
     paidThrough: m.paidThrough,
     joinedOn: dateInZone(m.createdAt, club.timeZone),
-    junior: isJunior(m, club, now),
+    junior: isJunior(m.birthDate, clubToday(club, now)),
   }
 }
 

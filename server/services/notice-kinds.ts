@@ -2,6 +2,8 @@
  * Every kind of e-mail Hoopwise sends, in one place: how it renders and whether a member may opt
  * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
  */
+import { tokenLifetimeWords } from './tokens'
+
 export interface NoticeVars {
   clubName: string
   memberName: string
@@ -47,7 +49,7 @@ export const NOTICE_KINDS = {
     label: 'E-mail verification',
     render: v => notice(`Confirm your e-mail for ${v.clubName}`, [
       `Hello ${v.memberName},`,
-      `Please confirm this e-mail address for your ${v.clubName} account. The link works once and expires in 48 hours.`,
+      `Please confirm this e-mail address for your ${v.clubName} account. The link works once and expires in ${tokenLifetimeWords('verify_email')}.`,
     ], { label: 'Confirm my e-mail', url: v.actionUrl }),
   },
   password_reset: {
@@ -55,7 +57,7 @@ export const NOTICE_KINDS = {
     label: 'Password reset',
     render: v => notice(`Reset your ${v.clubName} password`, [
       `Hello ${v.memberName},`,
-      'Someone (hopefully you) asked to reset your password. The link works once and expires in 1 hour.',
+      `Someone (hopefully you) asked to reset your password. The link works once and expires in ${tokenLifetimeWords('reset_password')}.`,
       'If it was not you, ignore this message: your password stays as it is.',
     ], { label: 'Choose a new password', url: v.actionUrl }),
   },
@@ -66,7 +68,7 @@ export const NOTICE_KINDS = {
       `Hello ${v.guardianName ?? ''},`.replace(' ,', ','),
       `${v.memberName} has signed up to ${v.clubName}, a water rocketry club, and named you as their parent or guardian.`,
       'Members under 18 train first, hold at most the club\'s junior tier (T1 by default: bottle fills up to 6 bar) and fill only under an instructor\'s supervision; composite and laminate work is for adults.',
-      'If you agree to their membership, confirm with the link below (it works once and expires in 14 days).',
+      `If you agree to their membership, confirm with the link below (it works once and expires in ${tokenLifetimeWords('guardian_consent')}).`,
     ], { label: 'I give my consent', url: v.actionUrl }),
   },
   signup_approved: {

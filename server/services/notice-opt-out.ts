@@ -9,6 +9,14 @@ function sign(secret: string, membershipId: string, kind: string): string {
   return createHmac('sha256', secret).update(`opt-out:${membershipId}:${kind}`).digest('base64url')
 }
 
+/**
+ * The key that signs opt-out links, derived from the server's session secret: a key of its own, so
+ * an opt-out link never helps forge a session.
+ */
+export function deriveOptOutKey(sessionSecret: string): string {
+  return createHmac('sha256', sessionSecret).update('hoopwise:notice-opt-out').digest('hex')
+}
+
 /** The opaque token for (member, kind): `<membershipId>.<kind>.<signature>`. */
 export function optOutToken(secret: string, membershipId: string, kind: string): string {
   return `${membershipId}.${kind}.${sign(secret, membershipId, kind)}`

@@ -3,6 +3,7 @@ import { sendMail } from '../utils/mail'
 import { NOTICE_KINDS, isNoticeKind } from './notice-kinds'
 import { oneClickOptOutUrl } from './notice-opt-out'
 import { optOutSecret } from './notices'
+import { clubBaseUrl } from './clubs'
 import { backoffSeconds, classifySendError, statusAfterFailure } from './notice-policy'
 
 // Small batches and a long lease: even at the transport's worst timeouts (5 s to connect, 10 s per
@@ -58,7 +59,7 @@ async function finish(id: string, set: string, replacements: Record<string, unkn
 /** Headers that let a mail program offer one-click opt-out (RFC 2369 and RFC 8058) for optional kinds. */
 function listHeaders(n: ClaimedNotice): Record<string, string> | undefined {
   if (!isNoticeKind(n.kind) || !NOTICE_KINDS[n.kind].optional) return undefined
-  const url = oneClickOptOutUrl(optOutSecret(), n.public_url.replace(/\/+$/, ''), n.membership_id, n.kind)
+  const url = oneClickOptOutUrl(optOutSecret(), clubBaseUrl({ publicUrl: n.public_url }), n.membership_id, n.kind)
   return { 'List-Unsubscribe': `<${url}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' }
 }
 

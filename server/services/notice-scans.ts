@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { Club } from '../models'
-import { addCalendarDays, dateInZone } from '../../shared/utils/membership-status'
+import { addCalendarDays } from '../../shared/utils/membership-status'
+import { clubBaseUrl, clubToday } from './clubs'
 import { enqueueNotice } from './notices'
 
 /** Days before paid-through that the dues reminder is due. */
@@ -15,7 +16,7 @@ interface DueMember { id: string, paid_through: string, email: string, name: str
  * key in the database settles concurrent scans). Returns how many notices it queued.
  */
 async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
-  const today = dateInZone(now, club.timeZone)
+  const today = clubToday(club, now)
   // Members already reminded for this period are left out here; ON CONFLICT covers a concurrent scan.
   const due = await useDb().query<DueMember>(`
     SELECT m.id, m.paid_through::text AS paid_through, u.email, u.name
@@ -38,7 +39,7 @@ async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
       subjectKey: m.paid_through,
       dueOn: addCalendarDays(m.paid_through, -DUES_REMINDER_DAYS),
       toEmail: m.email,
-      vars: { clubName: club.name, memberName: m.name, baseUrl: club.publicUrl.replace(/\/+$/, ''), paidThrough: m.paid_through },
+      vars: { clubName: club.name, memberName: m.name, baseUrl: clubBaseUrl(club), paidThrough: m.paid_through },
     })
     if (added) queued += 1
   }

@@ -1,17 +1,13 @@
-import { createHmac } from 'node:crypto'
 import { QueryTypes, type Transaction } from 'sequelize'
 import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './notice-kinds'
 import { composeNotice } from './notice-render'
-import { optOutUrl } from './notice-opt-out'
+import { deriveOptOutKey, optOutUrl } from './notice-opt-out'
 
 let optOutKey: string | undefined
 
-/**
- * The key that signs opt-out links: derived from the server's session secret, so it is never sent
- * to a browser and an opt-out link never helps forge a session.
- */
+/** The key that signs opt-out links (see deriveOptOutKey); never sent to a browser. */
 export function optOutSecret(): string {
-  optOutKey ??= createHmac('sha256', useRuntimeConfig().session.password).update('hoopwise:notice-opt-out').digest('hex')
+  optOutKey ??= deriveOptOutKey(useRuntimeConfig().session.password)
   return optOutKey
 }
 

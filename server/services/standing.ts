@@ -1,7 +1,8 @@
 import type { Club } from '../models'
 import { Membership, User } from '../models'
 import { loadMemberDto } from './members'
-import { addCalendarDays, dateInZone, daysBetween } from '../../shared/utils/membership-status'
+import { addCalendarDays, daysBetween } from '../../shared/utils/membership-status'
+import { clubToday } from './clubs'
 import { formatCalendarDate as long } from '../../shared/utils/dates'
 import type { Profile } from '../../shared/schemas/member'
 import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../shared/types/dto'
@@ -73,7 +74,7 @@ export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
   const member = await loadMemberDto(actor.club.id, actor.membership.id)
   if (!member) return null
   const club = toClubDto(actor.club)
-  const today = dateInZone(new Date(), club.timeZone)
+  const today = clubToday(club)
   return {
     member,
     club,

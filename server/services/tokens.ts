@@ -9,6 +9,17 @@ export const TOKEN_LIFETIME_HOURS: Record<TokenPurpose, number> = {
   guardian_consent: 14 * 24,
 }
 
+/** A link lifetime in words for e-mails and messages: "1 hour", "48 hours", "14 days" (days only beyond two). */
+export function lifetimeWords(hours: number): string {
+  if (hours > 48 && hours % 24 === 0) return `${hours / 24} days`
+  return hours === 1 ? '1 hour' : `${hours} hours`
+}
+
+/** How long a link of `purpose` stays usable, in words (see TOKEN_LIFETIME_HOURS). */
+export function tokenLifetimeWords(purpose: TokenPurpose): string {
+  return lifetimeWords(TOKEN_LIFETIME_HOURS[purpose])
+}
+
 export interface IssuedToken {
   id: string
   /** The secret that goes into the e-mailed link; never stored. */

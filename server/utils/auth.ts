@@ -14,7 +14,8 @@ export interface Actor {
 /**
  * The signed-in member, read fresh from the database on every request: roles and status come from
  * the membership row, never from the cookie alone, so a removed role or a suspension bites at once.
- * 401 when not signed in (or the membership is gone).
+ * 401 (and the cookie cleared) when not signed in, when the membership is gone, or when the
+ * session began before the account's password was last reset.
  */
 export async function requireMember(event: H3Event): Promise<Actor> {
   if (event.context.actor) return event.context.actor as Actor
@@ -24,7 +25,9 @@ export async function requireMember(event: H3Event): Promise<Actor> {
     where: { id: session.user.memberId, userId: session.user.id },
     include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],
   })
-  if (!membership?.user || !membership.club) {
+  // A session older than the account's last password reset is revoked (a cookie without a version counts as 0).
+  const revoked = (session.secure?.sessionVersion ?? 0) < (membership?.user?.sessionVersion ?? 0)
+  if (!membership?.user || !membership.club || revoked) {
     await clearUserSession(event)
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Please sign in again' })
   }

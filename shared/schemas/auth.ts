@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { ADULT_AGE, ageOn } from '../utils/membership-status'
+import { isJunior } from '../utils/membership-status'
 import { emailField, isoDate, optionalText } from './common'
 
 export const passwordField = z.string().min(10, 'At least 10 characters').max(200, 'At most 200 characters')
@@ -24,11 +24,6 @@ export const SignupSchema = z.object({
 })
 export type Signup = z.infer<typeof SignupSchema>
 
-/** Whether someone born on `birthDate` (YYYY-MM-DD) is under 18 on `today` (YYYY-MM-DD, the club's date). */
-export function isUnder18(birthDate: string, today: string): boolean {
-  return ageOn(birthDate, today) < ADULT_AGE
-}
-
 /**
  * SignupSchema plus the rules that depend on the date: the birth date lies between 1900 and `today`,
  * and a junior (under 18 on `today`, the club's calendar date) names a guardian with an e-mail of
@@ -46,7 +41,7 @@ export function signupSchemaFor(today: string) {
       ctx.addIssue({ code: 'custom', path: ['birthDate'], message: 'Check the year of the birth date' })
       return
     }
-    if (!isUnder18(v.birthDate, today)) return
+    if (!isJunior(v.birthDate, today)) return
     if (!v.guardianName) {
       ctx.addIssue({ code: 'custom', path: ['guardianName'], message: 'Members under 18 name a parent or guardian' })
     }

@@ -4,6 +4,10 @@ import type { SessionUser } from './session'
 declare module '#auth-utils' {
   // eslint-disable-next-line @typescript-eslint/no-empty-object-type
   interface User extends SessionUser {}
+  // Server-only part of the sealed cookie: the account's session version when the session began.
+  interface SecureSessionData {
+    sessionVersion?: number
+  }
 }
 
 export {}

@@ -10,6 +10,12 @@ export const AUDIT_ACTION_LABELS: Record<string, string> = {
   'member.rejoin': 'Let a member rejoin',
   'member.edit': 'Edited member details',
   'member.roles': 'Changed roles',
+  'member.guardian_consent_request': 'Asked a guardian for consent',
+  'membership.signed_up': 'Signed up',
+  'membership.guardian_consent': 'Guardian gave consent',
+  'account.password_reset': 'Reset a password from an e-mailed link',
+  'waiver.publish': 'Published a waiver version',
+  'notice.retry': 'Retried a notice',
 }
 
 /** The label for `action`, or the action code itself when it has none. */

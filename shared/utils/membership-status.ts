@@ -76,6 +76,14 @@ export function ageOn(birthDate: string, today: string): number {
 
 export const ADULT_AGE = 18
 
+/**
+ * Whether someone born on `birthDate` (YYYY-MM-DD) is a junior — under 18 — on `today` (YYYY-MM-DD,
+ * the club's calendar date). An unknown birth date is not a junior.
+ */
+export function isJunior(birthDate: string | null | undefined, today: string): boolean {
+  return !!birthDate && ageOn(birthDate, today) < ADULT_AGE
+}
+
 /** Calendar days from `from` to `to` (both YYYY-MM-DD); negative when `to` is earlier. */
 export function daysBetween(from: string, to: string): number {
   const utc = (d: string) => {

@@ -1,10 +1,12 @@
 import { createHash, randomUUID } from 'node:crypto'
+import pg from 'pg'
 import { describe, it, expect, inject } from 'vitest'
 import { api, sessionCookieOf } from '../support/http'
 import { linkIn, mailsTo, waitForMail, type CaughtMail } from '../support/mail'
 import { sql } from '../support/db'
 import { clubDay, makeMember, FACTORY_PASSWORD } from '../support/factories'
 import { postFrom } from '../support/from-address'
+import { testEnv } from '../support/test-env'
 
 // Sign-up, e-mail verification, sign-in/out, password reset and guardian consent against the shared
 // server. Every test makes its own people (unique e-mails) and looks only at what it made.
@@ -43,6 +45,44 @@ async function waitForMails(address: string, subject: RegExp, count: number): Pr
 
 function login(email: string, password: string) {
   return postFrom(LOGIN_ADDRESS, inject('baseUrl'), '/api/auth/login', { email, password })
+}
+
+/** Signs `email` in from the shared address and returns the session cookie. */
+async function cookieFor(email: string, password: string): Promise<string> {
+  const res = await api('/api/auth/login', { body: { email, password } })
+  expect(res.status).toBe(200)
+  return sessionCookieOf(res)
+}
+
+/** Resets `email`'s password through the e-mailed link. */
+async function resetThroughLink(email: string, password: string): Promise<void> {
+  expect((await api('/api/auth/password-reset-request', { body: { email } })).status).toBe(200)
+  const token = tokenOf(linkIn(await waitForMail(email, RESET_SUBJECT), '/reset-password'))
+  expect((await api('/api/auth/password-reset', { body: { token, password } })).status).toBe(200)
+}
+
+/**
+ * Holds `FOR UPDATE` on the account's row in a transaction of its own until the returned function is
+ * called: queuing a link for that account (an insert referring to the row) waits meanwhile.
+ */
+async function lockAccountRow(userId: string): Promise<() => Promise<void>> {
+  const client = new pg.Client({ connectionString: testEnv.databaseUrl })
+  await client.connect()
+  await client.query('BEGIN')
+  await client.query('SELECT id FROM users WHERE id = $1 FOR UPDATE', [userId])
+  return async () => {
+    await client.query('ROLLBACK')
+    await client.end()
+  }
+}
+
+/** `promise`'s value, or 'timed out' when it takes longer than `ms`. */
+function within<T>(promise: Promise<T>, ms: number): Promise<T | 'timed out'> {
+  let timer: NodeJS.Timeout | undefined
+  const timeout = new Promise<'timed out'>((resolve) => {
+    timer = setTimeout(() => resolve('timed out'), ms)
+  })
+  return Promise.race([promise, timeout]).finally(() => clearTimeout(timer))
 }
 
 describe('sign-up and e-mail verification', () => {
@@ -228,7 +268,7 @@ describe('sign-in and sign-out', () => {
 describe('password reset', () => {
   const RESET_BODY = {
     ok: true,
-    message: 'If an account uses this e-mail, a link to choose a new password is on its way. It works once, within an hour.',
+    message: 'If an account uses this e-mail, a link to choose a new password is on its way. It works once and expires in 1 hour.',
   }
 
   it('answers an unknown e-mail exactly as a known one, and sends it nothing', async () => {
@@ -270,6 +310,77 @@ describe('password reset', () => {
     const audit = await sql<{ actor_membership_id: string }>(
       `SELECT actor_membership_id FROM audit_events WHERE subject_id = $1 AND action = 'account.password_reset'`, [member.userId])
     expect(audit).toEqual([{ actor_membership_id: member.memberId }])
+  })
+
+  it('answers a known e-mail before its link is queued, as fast as an unknown one', async () => {
+    const member = await makeMember()
+    // While the account's row is locked, queuing its link waits; the reply must not.
+    const release = await lockAccountRow(member.userId)
+    try {
+      const known = await within(api('/api/auth/password-reset-request', { body: { email: member.email } }), 5_000)
+      const unknown = await within(api('/api/auth/password-reset-request', { body: { email: uniqueEmail('nobody') } }), 5_000)
+      expect(known).not.toBe('timed out')
+      expect(unknown).not.toBe('timed out')
+      expect(known).toMatchObject({ status: 200, body: RESET_BODY })
+      expect(unknown).toMatchObject({ status: 200, body: RESET_BODY })
+      expect(await sql('SELECT id FROM action_tokens WHERE user_id = $1', [member.userId])).toHaveLength(0)
+    }
+    finally {
+      await release()
+    }
+    // Once the row is free the work finishes after the reply: the link arrives.
+    const mail = await waitForMail(member.email, RESET_SUBJECT)
+    expect(linkIn(mail, '/reset-password').searchParams.get('token')).toMatch(/^[A-Za-z0-9_-]{20,}$/)
+  })
+
+  it('ends every session begun before a reset; sessions begun after it (and their profile edits) work', async () => {
+    const member = await makeMember()
+    const before = await cookieFor(member.email, FACTORY_PASSWORD)
+    const renamed = await api('/api/me/profile', {
+      method: 'PATCH', as: before, body: { name: 'Renamed Before Reset', phone: null, emergencyContactName: null, emergencyContactPhone: null, unitPreference: 'bar' },
+    })
+    expect(renamed.status).toBe(200)
+    const renamedCookie = sessionCookieOf(renamed)
+    expect((await api('/api/me', { as: before })).status).toBe(200)
+    expect((await api('/api/me', { as: renamedCookie })).status).toBe(200)
+
+    const newPassword = 'a-password-after-reset-3'
+    await resetThroughLink(member.email, newPassword)
+    for (const stale of [before, renamedCookie]) {
+      const res = await api('/api/me', { as: stale })
+      expect(res.status).toBe(401)
+      expect(res.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))).toMatch(/^nuxt-session=;/)
+    }
+
+    // A session begun after the reset works, and keeps working after the profile rewrites it.
+    const after = await cookieFor(member.email, newPassword)
+    const session = await api('/api/_auth/session', { as: after })
+    expect(Object.keys(session.body.user).sort()).toEqual(['clubId', 'email', 'id', 'memberId', 'name', 'roles'])
+    expect(session.body.secure).toBeUndefined()
+    const edited = await api('/api/me/profile', {
+      method: 'PATCH', as: after, body: { name: 'Renamed After Reset', phone: null, emergencyContactName: null, emergencyContactPhone: null, unitPreference: 'psi' },
+    })
+    expect(edited.status).toBe(200)
+    const me = await api('/api/me', { as: sessionCookieOf(edited) })
+    expect(me.status).toBe(200)
+    expect((await api('/api/_auth/session', { as: sessionCookieOf(edited) })).body.user.name).toBe('Renamed After Reset')
+  })
+
+  it('lets exactly one of several racing resets with the same link through', async () => {
+    const member = await makeMember()
+    await api('/api/auth/password-reset-request', { body: { email: member.email } })
+    const token = tokenOf(linkIn(await waitForMail(member.email, RESET_SUBJECT), '/reset-password'))
+    const passwords = Array.from({ length: 5 }, (_, i) => `racing-password-${i}-long`)
+    const answers = await Promise.all(passwords.map(password => api('/api/auth/password-reset', { body: { token, password } })))
+    const won = answers.flatMap((a, i) => (a.status === 200 ? [passwords[i]!] : []))
+    expect(won).toHaveLength(1)
+    for (const a of answers.filter(a => a.status !== 200)) {
+      expect(a.status).toBe(422)
+      expect(a.body.data.reasons[0].code).toBe('TOKEN_USED')
+    }
+    expect((await login(member.email, won[0]!)).status).toBe(200)
+    const [row] = await sql<{ session_version: number }>('SELECT session_version FROM users WHERE id = $1', [member.userId])
+    expect(row!.session_version).toBe(1)
   })
 
   it('refuses an expired reset link and keeps the old password', async () => {

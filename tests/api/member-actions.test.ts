@@ -4,13 +4,20 @@ import { api } from '../support/http'
 import { sql } from '../support/db'
 import { makeMember, clubDay } from '../support/factories'
 import { signIn } from '../support/global-setup'
-import { waitForMail, linkIn } from '../support/mail'
+import { waitForMail, linkIn, mailsTo } from '../support/mail'
 
 const post = (id: string, action: string, body: unknown = { reason: 'Decided at the committee meeting' }, as = 'admin') =>
   api(`/api/members/${id}/${action}`, { method: 'POST', as, body })
 
 const auditOf = (subjectId: string) => sql<{ action: string, before: Record<string, unknown>, after: Record<string, unknown>, reason: string, actor_name: string }>(
   `SELECT action, before, after, reason, actor_name FROM audit_events WHERE subject_id = $1 ORDER BY created_at, id`, [subjectId])
+
+const patch = (id: string, body: unknown, as = 'admin') => api(`/api/members/${id}`, { method: 'PATCH', as, body })
+const CONSENT_SUBJECT = /asks for your consent/
+const guardianAddress = (label: string) => `guardian-${label}-${randomUUID().slice(0, 8)}@test.hoopwise.example`
+const tokenIn = async (address: string) => linkIn(await waitForMail(address, CONSENT_SUBJECT), '/guardian-consent').searchParams.get('token')!
+const consentOf = async (id: string) => (await sql<{ guardian_consent_at: Date | null }>(
+  'SELECT guardian_consent_at FROM memberships WHERE id = $1', [id]))[0]!.guardian_consent_at
 
 const codeOf = (res: { body: { data?: { reasons?: { code: string }[] } } }) => res.body.data?.reasons?.map(r => r.code)
 
@@ -213,5 +220,192 @@ describe('reading and editing a member', () => {
     const res = await api(`/api/members/${member.memberId}`, { method: 'PATCH', as: 'admin', body })
     expect(res.status).toBe(400)
     expect(res.body.data.fields[field]).toBeTruthy()
+  })
+})
+
+describe('self-checks and admins acting on each other', () => {
+  it('refuses an admin suspending or resigning their own membership with the id written in upper case (SELF_ACTION)', async () => {
+    const admin = await makeMember({ roles: ['admin'] })
+    const cookie = await signIn(inject('baseUrl'), admin.email, admin.password)
+    for (const action of ['suspend', 'resign']) {
+      const res = await post(admin.memberId.toUpperCase(), action, { reason: 'Trying it on myself' }, cookie)
+      expect(res.status).toBe(422)
+      expect(codeOf(res)).toEqual(['SELF_ACTION'])
+    }
+    const [row] = await sql<{ suspended_at: Date | null, resigned_at: Date | null }>(
+      `SELECT suspended_at, resigned_at FROM memberships WHERE id = $1`, [admin.memberId])
+    expect(row).toEqual({ suspended_at: null, resigned_at: null })
+    expect(await auditOf(admin.memberId)).toEqual([])
+  })
+
+  it('two admins suspending each other at once: exactly one goes through, and one admin keeps working', async () => {
+    const [a, b] = await Promise.all([makeMember({ roles: ['admin'] }), makeMember({ roles: ['admin'] })])
+    const [cookieA, cookieB] = await Promise.all([a!, b!].map(m => signIn(inject('baseUrl'), m.email, m.password)))
+    const [byA, byB] = await Promise.all([
+      post(b!.memberId, 'suspend', { reason: 'Suspended by the other admin' }, cookieA),
+      post(a!.memberId, 'suspend', { reason: 'Suspended by the other admin' }, cookieB),
+    ])
+    const statuses = [byA.status, byB.status].sort()
+    expect(statuses[0]).toBe(200)
+    expect([403, 422]).toContain(statuses[1])
+    const rows = await sql<{ id: string, suspended_at: Date | null }>(
+      `SELECT id, suspended_at FROM memberships WHERE id = ANY($1::uuid[])`, [[a!.memberId, b!.memberId]])
+    expect(rows.filter(r => r.suspended_at === null)).toHaveLength(1)
+    const working = rows.find(r => r.suspended_at === null)!.id === a!.memberId ? cookieA : cookieB
+    expect((await api('/api/members', { as: working })).status).toBe(200)
+    const events = await sql(`SELECT id FROM audit_events WHERE action = 'member.suspend' AND subject_id = ANY($1::uuid[])`, [[a!.memberId, b!.memberId]])
+    expect(events).toHaveLength(1)
+  })
+})
+
+describe('database refusals never become a 500', () => {
+  it('maps a constraint the database enforces on a membership action to 422 and writes nothing', async () => {
+    const m = await makeMember()
+    // A constraint for this one member only (NOT VALID: other rows are not checked), dropped afterwards.
+    const name = `test_refuse_${m.memberId.replace(/-/g, '')}`
+    await sql(`ALTER TABLE memberships ADD CONSTRAINT ${name} CHECK (id <> '${m.memberId}' OR suspended_at IS NULL) NOT VALID`)
+    try {
+      const res = await post(m.memberId, 'suspend', { reason: 'The database says no' })
+      expect(res.status).toBe(422)
+      expect(codeOf(res)).toEqual(['INVALID_RECORD'])
+    }
+    finally {
+      await sql(`ALTER TABLE memberships DROP CONSTRAINT ${name}`)
+    }
+    expect(await auditOf(m.memberId)).toEqual([])
+  })
+})
+
+describe('a junior\'s guardian and their consent', () => {
+  const junior = (o: Parameters<typeof makeMember>[0] = {}) => makeMember({ birthDate: clubDay(-14 * 365), guardianName: 'Rowan Saltreed', ...o })
+
+  it('re-sends a consent link on request (audited), and a new guardian e-mail stops the old link and asks the new guardian', async () => {
+    const first = guardianAddress('first')
+    const m = await junior({ guardianEmail: first })
+    const resend = await post(m.memberId, 'guardian-consent', { reason: 'Guardian lost the first e-mail' })
+    expect(resend.status).toBe(200)
+    expect(resend.body).toMatchObject({ id: m.memberId, guardianEmail: first, guardianConsentAt: null })
+    const oldToken = await tokenIn(first)
+
+    const second = guardianAddress('second')
+    const edit = await patch(m.memberId, { guardianName: 'Ash Saltreed', guardianEmail: second.toUpperCase(), reason: 'Guardian changed at the parents\' request' })
+    expect(edit.status).toBe(200)
+    expect(edit.body).toMatchObject({ guardianName: 'Ash Saltreed', guardianEmail: second, guardianConsentAt: null })
+    const stale = await api('/api/guardian-consent', { body: { token: oldToken } })
+    expect(stale.status).toBe(422)
+    expect(codeOf(stale)).toEqual(['TOKEN_USED'])
+
+    const mail = await waitForMail(second, CONSENT_SUBJECT)
+    expect(mail.text).toContain('Hello Ash Saltreed')
+    const link = linkIn(mail, '/guardian-consent')
+    expect(link.origin).toBe(inject('baseUrl'))
+    expect((await api('/api/guardian-consent', { body: { token: link.searchParams.get('token') } })).status).toBe(200)
+    expect(await consentOf(m.memberId)).not.toBeNull()
+
+    // One transaction writes the edit and the request, so only the requests' order is certain.
+    const events = await auditOf(m.memberId)
+    expect(events.map(e => e.action).sort()).toEqual(['member.edit', 'member.guardian_consent_request', 'member.guardian_consent_request', 'membership.guardian_consent'])
+    const requests = events.filter(e => e.action === 'member.guardian_consent_request')
+    expect(requests[0]).toMatchObject({ reason: 'Guardian lost the first e-mail', after: { guardianEmail: first, linksStopped: 0 } })
+    expect(requests[1]).toMatchObject({ reason: 'Guardian changed at the parents\' request', after: { guardianEmail: second, linksStopped: 1 } })
+    expect(events.find(e => e.action === 'member.edit')).toMatchObject({
+      reason: 'Guardian changed at the parents\' request',
+      after: { guardianName: 'Ash Saltreed', guardianEmail: second },
+    })
+  })
+
+  it('clears a given consent when the guardian e-mail changes, and keeps it when only other details change', async () => {
+    const m = await junior({ guardianEmail: guardianAddress('kept'), guardianConsent: true })
+    expect((await patch(m.memberId, { phone: '+44 1632 960456', guardianName: 'Rowan A. Saltreed' })).body.guardianConsentAt).not.toBeNull()
+    const next = guardianAddress('new')
+    const res = await patch(m.memberId, { guardianEmail: next })
+    expect(res.status).toBe(200)
+    expect(res.body.guardianConsentAt).toBeNull()
+    expect(await consentOf(m.memberId)).toBeNull()
+    await tokenIn(next)
+    const edit = (await auditOf(m.memberId)).filter(e => e.action === 'member.edit')[1]!
+    expect(edit.before.guardianConsentAt).toEqual(expect.any(String))
+    expect(edit.after).toMatchObject({ guardianConsentAt: null, guardianEmail: next })
+    // The reason is optional; without one the request says why it was sent.
+    expect(edit.reason).toBeNull()
+    const request = (await auditOf(m.memberId)).find(e => e.action === 'member.guardian_consent_request')!
+    expect(request.reason).toMatch(/Guardian details changed/)
+  })
+
+  it('an adult made a junior by a corrected birth date names a guardian, who is asked for consent', async () => {
+    const m = await makeMember()
+    const birthDate = clubDay(-10 * 365)
+    const bare = await patch(m.memberId, { birthDate })
+    expect(bare.status).toBe(400)
+    expect(Object.keys(bare.body.data.fields).sort()).toEqual(['guardianEmail', 'guardianName'])
+    const own = await patch(m.memberId, { birthDate, guardianName: 'Rowan Saltreed', guardianEmail: m.email })
+    expect(own.status).toBe(400)
+    expect(own.body.data.fields.guardianEmail).toMatch(/own e-mail/)
+    const [row] = await sql<{ birth_date: string }>(`SELECT to_char(birth_date, 'YYYY-MM-DD') AS birth_date FROM memberships WHERE id = $1`, [m.memberId])
+    expect(row!.birth_date).toBe(clubDay(-30 * 365))
+    expect(await auditOf(m.memberId)).toEqual([])
+
+    const guardian = guardianAddress('late')
+    const res = await patch(m.memberId, { birthDate, guardianName: 'Rowan Saltreed', guardianEmail: guardian })
+    expect(res.status).toBe(200)
+    expect(res.body).toMatchObject({ junior: true, guardianEmail: guardian })
+    await tokenIn(guardian)
+  })
+
+  it('keeps a junior\'s guardian: clearing the e-mail is 400 and changes nothing', async () => {
+    const guardian = guardianAddress('stays')
+    const m = await junior({ guardianEmail: guardian, guardianConsent: true })
+    const res = await patch(m.memberId, { guardianEmail: '' })
+    expect(res.status).toBe(400)
+    expect(res.body.data.fields.guardianEmail).toMatch(/guardian's e-mail/)
+    expect(await consentOf(m.memberId)).not.toBeNull()
+    // On an adult the guardian may go.
+    const adult = await makeMember({ guardianName: 'Old Guardian', guardianEmail: guardianAddress('adult') })
+    expect((await patch(adult.memberId, { guardianName: '', guardianEmail: '' })).status).toBe(200)
+  })
+
+  it.each([
+    ['0000-01-01', /year/],
+    ['1899-12-31', /year/],
+    ['tomorrow', /future/],
+  ])('refuses the birth date %s with 400, not 422 or 500', async (date, message) => {
+    const m = await makeMember()
+    const res = await patch(m.memberId, { birthDate: date === 'tomorrow' ? clubDay(1) : date })
+    expect(res.status).toBe(400)
+    expect(res.body.data.fields.birthDate).toMatch(message)
+    expect(await auditOf(m.memberId)).toEqual([])
+  })
+
+  it.each([
+    ['an adult', { guardianEmail: 'guardian-adult@test.hoopwise.example' }, 'NOT_JUNIOR'],
+    ['a junior without a guardian e-mail', { birthDate: clubDay(-14 * 365) }, 'NO_GUARDIAN'],
+    ['a junior whose guardian has consented', { birthDate: clubDay(-14 * 365), guardianEmail: 'guardian-done@test.hoopwise.example', guardianConsent: true }, 'ALREADY_CONSENTED'],
+  ])('does not re-send a consent link for %s (422 %s)', async (_label, overrides, code) => {
+    const m = await makeMember(overrides)
+    const res = await post(m.memberId, 'guardian-consent', { reason: 'Asking once more' })
+    expect(res.status).toBe(422)
+    expect(codeOf(res)).toEqual([code])
+    expect(await auditOf(m.memberId)).toEqual([])
+  })
+
+  it('re-sending needs a reason and members.manage', async () => {
+    const guardian = guardianAddress('gate')
+    const m = await junior({ guardianEmail: guardian })
+    expect((await post(m.memberId, 'guardian-consent', {})).status).toBe(400)
+    expect((await post(m.memberId, 'guardian-consent', { reason: 'Not my call' }, 'safety')).status).toBe(403)
+    expect(await mailsTo(guardian)).toEqual([])
+    expect(await auditOf(m.memberId)).toEqual([])
+  })
+})
+
+describe('a reason on a member edit', () => {
+  it('lands in the audit trail; a reason alone is nothing to change', async () => {
+    const m = await makeMember()
+    const res = await patch(m.memberId, { emergencyContactName: 'Rhea Saltreed', reason: 'Asked at the spring launch' })
+    expect(res.status).toBe(200)
+    const [edit] = await auditOf(m.memberId)
+    expect(edit).toMatchObject({ action: 'member.edit', reason: 'Asked at the spring launch', after: { emergencyContactName: 'Rhea Saltreed' } })
+    const only = await patch(m.memberId, { reason: 'Nothing else' })
+    expect(only.status).toBe(400)
   })
 })

@@ -4,7 +4,7 @@ import { sql } from '../support/db'
 import { makeMember, clubDay, demoClubId, type MadeMember } from '../support/factories'
 import { mailsTo, waitForMail, linkIn, type CaughtMail } from '../support/mail'
 import { testEnv } from '../support/test-env'
-import { optOutToken } from '../../server/services/notice-opt-out'
+import { deriveOptOutKey, optOutToken } from '../../server/services/notice-opt-out'
 
 const REMINDER = /dues run out/
 
@@ -145,7 +145,7 @@ describe('opting out', () => {
 
   it('refuses safety kinds (422) and bad links (400/404)', async () => {
     const member = await makeMember()
-    const safety = optOutToken(testEnv.sessionPassword, member.memberId, 'password_reset')
+    const safety = optOutToken(deriveOptOutKey(testEnv.sessionPassword), member.memberId, 'password_reset')
     const preview = await api('/api/notices/opt-out', { query: { token: safety } })
     expect(preview.status).toBe(200)
     expect(preview.body.optional).toBe(false)
@@ -153,10 +153,10 @@ describe('opting out', () => {
     expect(refused.status).toBe(422)
     expect(refused.body.data.reasons[0].code).toBe('NOT_OPTIONAL')
 
-    const good = optOutToken(testEnv.sessionPassword, member.memberId, 'dues_reminder')
+    const good = optOutToken(deriveOptOutKey(testEnv.sessionPassword), member.memberId, 'dues_reminder')
     const forged = optOutToken('not-the-server-secret-not-the-server-secret', member.memberId, 'dues_reminder')
     const otherMember = good.replace(member.memberId, '00000000-0000-4000-8000-000000000000')
-    const unknownMember = optOutToken(testEnv.sessionPassword, '00000000-0000-4000-8000-000000000000', 'dues_reminder')
+    const unknownMember = optOutToken(deriveOptOutKey(testEnv.sessionPassword), '00000000-0000-4000-8000-000000000000', 'dues_reminder')
     for (const token of [forged, otherMember, unknownMember, good.slice(0, -3)]) {
       expect((await api('/api/notices/opt-out', { method: 'POST', body: { token } })).status).toBe(404)
     }

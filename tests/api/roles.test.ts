@@ -54,6 +54,45 @@ describe('PUT /api/members/:id/roles', () => {
     expect(await rolesOf(admin.memberId)).toEqual(['member', 'admin'])
   })
 
+  it('refuses it as well when the admin writes their own id in upper case (422 OWN_ROLES)', async () => {
+    const admin = await makeMember({ roles: ['admin'] })
+    const cookie = await signIn(inject('baseUrl'), admin.email, admin.password)
+    const res = await putRoles(admin.memberId.toUpperCase(), { roles: ['member'], reason: 'Stepping down myself' }, cookie)
+    expect(res.status).toBe(422)
+    expect(res.body.data.reasons.map((r: { code: string }) => r.code)).toEqual(['OWN_ROLES'])
+    expect(await rolesOf(admin.memberId)).toEqual(['member', 'admin'])
+  })
+
+  it('two admins removing each other\'s admin role at once: exactly one goes through, one admin remains', async () => {
+    const [a, b] = await Promise.all([makeMember({ roles: ['admin'] }), makeMember({ roles: ['admin'] })])
+    const [cookieA, cookieB] = await Promise.all([a!, b!].map(m => signIn(inject('baseUrl'), m.email, m.password)))
+    const results = await Promise.all([
+      putRoles(b!.memberId, { roles: ['member'], reason: 'Removed by the other admin' }, cookieA),
+      putRoles(a!.memberId, { roles: ['member'], reason: 'Removed by the other admin' }, cookieB),
+    ])
+    expect(results.map(r => r.status).sort()).toEqual([200, 403])
+    const roles = [await rolesOf(a!.memberId), await rolesOf(b!.memberId)]
+    expect(roles.filter(r => r.includes('admin'))).toHaveLength(1)
+    const events = await sql(`SELECT id FROM audit_events WHERE action = 'member.roles' AND subject_id = ANY($1::uuid[])`, [[a!.memberId, b!.memberId]])
+    expect(events).toHaveLength(1)
+  })
+
+  it('maps a database refusal of a role change to 422, never 500', async () => {
+    const m = await makeMember()
+    // A constraint for this one member only (NOT VALID: other rows are not checked), dropped afterwards.
+    const name = `test_roles_${m.memberId.replace(/-/g, '')}`
+    await sql(`ALTER TABLE memberships ADD CONSTRAINT ${name} CHECK (id <> '${m.memberId}' OR cardinality(roles) = 1) NOT VALID`)
+    try {
+      const res = await putRoles(m.memberId, { roles: ['instructor'], reason: 'The database says no' })
+      expect(res.status).toBe(422)
+      expect(res.body.data.reasons.map((r: { code: string }) => r.code)).toEqual(['INVALID_RECORD'])
+    }
+    finally {
+      await sql(`ALTER TABLE memberships DROP CONSTRAINT ${name}`)
+    }
+    expect(await rolesOf(m.memberId)).toEqual(['member'])
+  })
+
   it.each(['member', 'instructor', 'safety'])('refuses a %s with 403', async (as) => {
     const m = await makeMember()
     expect((await putRoles(m.memberId, { roles: ['instructor'], reason: 'Not my call' }, as)).status).toBe(403)

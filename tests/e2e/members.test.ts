@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto'
 import { describe, expect, it } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
 import { setupBrowser, submitSignIn, goTo } from '../support/browser'
-import { makeMember } from '../support/factories'
+import { clubDay, makeMember } from '../support/factories'
+import { waitForMail } from '../support/mail'
 import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
@@ -58,6 +59,37 @@ describe('the member directory and member page', () => {
     await page.goBack()
     await page.waitForURL(url => url.pathname === '/members')
     await expect.poll(() => page.getByTestId('member-row').first().getByTestId('status-suspended').textContent()).toBe('Suspended')
+    await page.close()
+  })
+
+  it('an admin re-sends a junior\'s consent link, then changes the guardian with a reason after the form asks for an e-mail', async () => {
+    const tag = randomUUID().slice(0, 8)
+    const guardianEmail = `guardian-${tag}@test.hoopwise.example`
+    const junior = await makeMember({ name: `Pip Saltreed ${tag}`, birthDate: clubDay(-13 * 365), guardianName: 'Rowan Saltreed', guardianEmail })
+    const page = await signInAsAdmin()
+    await goTo(page, `/members/${junior.memberId}`)
+
+    await page.getByTestId('action-guardian-consent').click()
+    const dialog = page.getByTestId('action-dialog')
+    await dialog.getByTestId('action-reason').fill('The first link expired')
+    await dialog.getByTestId('action-submit').click()
+    await expect.poll(() => page.getByTestId('form-ok').textContent()).toContain(`A fresh consent link is on its way to ${guardianEmail}`)
+    await waitForMail(guardianEmail, /asks for your consent/)
+
+    await page.getByTestId('edit-open').click()
+    const form = page.getByTestId('member-edit-form')
+    await form.getByTestId('field-guardianEmail').fill('')
+    await form.getByTestId('edit-save').click()
+    await expect.poll(() => form.getByTestId('error-guardianEmail').textContent()).toContain('guardian\'s e-mail')
+    const next = `guardian-new-${tag}@test.hoopwise.example`
+    await form.getByTestId('field-guardianEmail').fill(next)
+    await form.getByTestId('field-reason').fill('The family asked for the other parent')
+    await form.getByTestId('edit-save').click()
+    await expect.poll(() => page.getByTestId('standing-guardian').textContent()).toContain(next)
+    expect(await page.getByTestId('standing-guardian').textContent()).toContain('Consent not confirmed yet')
+    const [edit] = await sql<{ reason: string }>(`SELECT reason FROM audit_events WHERE subject_id = $1 AND action = 'member.edit'`, [junior.memberId])
+    expect(edit!.reason).toBe('The family asked for the other parent')
+    await waitForMail(next, /asks for your consent/)
     await page.close()
   })
 

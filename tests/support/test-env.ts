@@ -20,6 +20,9 @@ export function serverEnv(overrides: Record<string, string> = {}): Record<string
     NUXT_PUBLIC_URL: testEnv.baseUrl,
     NUXT_SMTP_HOST: '127.0.0.1',
     NUXT_SMTP_PORT: String(testEnv.smtpPort),
+    // Every test file signs up and asks for resets from 127.0.0.1; the limits have tests of their own.
+    NUXT_SIGNUP_MAX_PER_ADDRESS: '1000',
+    NUXT_RESET_REQUEST_MAX_PER_ADDRESS: '1000',
     ...overrides,
   }
 }

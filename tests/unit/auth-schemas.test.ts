@@ -1,8 +1,9 @@
 import { describe, it, expect } from 'vitest'
 import {
   LoginSchema, NewPasswordFormSchema, ResetPasswordSchema, ResetRequestSchema, SignupSchema, TokenSchema,
-  isUnder18, signupSchemaFor,
+  signupSchemaFor,
 } from '../../shared/schemas/auth'
+import { isJunior } from '../../shared/utils/membership-status'
 
 // A fixed "today" (the club's calendar date): these rules are about dates, not about the clock.
 const TODAY = '2026-03-15'
@@ -17,7 +18,7 @@ function fieldsOf(result: { success: boolean, error?: { issues: { path: (string 
   return fields
 }
 
-describe('isUnder18 (age on the club\'s date)', () => {
+describe('isJunior (under 18 on the club\'s date)', () => {
   it.each([
     ['2008-03-16', true, 'turns 18 tomorrow'],
     ['2008-03-15', false, 'turns 18 today'],
@@ -25,12 +26,17 @@ describe('isUnder18 (age on the club\'s date)', () => {
     ['2012-01-20', true, 'fourteen'],
     ['1990-06-01', false, 'adult'],
   ])('born %s → under 18: %s (%s)', (birthDate, expected) => {
-    expect(isUnder18(birthDate, TODAY)).toBe(expected)
+    expect(isJunior(birthDate, TODAY)).toBe(expected)
   })
 
   it('counts a 29 February birthday as reached on 1 March in a common year', () => {
-    expect(isUnder18('2008-02-29', '2026-02-28')).toBe(true)
-    expect(isUnder18('2008-02-29', '2026-03-01')).toBe(false)
+    expect(isJunior('2008-02-29', '2026-02-28')).toBe(true)
+    expect(isJunior('2008-02-29', '2026-03-01')).toBe(false)
+  })
+
+  it('does not count a member without a birth date as a junior', () => {
+    expect(isJunior(null, TODAY)).toBe(false)
+    expect(isJunior(undefined, TODAY)).toBe(false)
   })
 })
 

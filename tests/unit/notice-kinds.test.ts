@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { NOTICE_KINDS, isNoticeKind, longDate, optionalNoticeKinds, type NoticeKindName, type NoticeVars } from '../../server/services/notice-kinds'
 import { composeNotice } from '../../server/services/notice-render'
-import { optOutToken, optOutUrl, oneClickOptOutUrl, readOptOutToken } from '../../server/services/notice-opt-out'
+import { deriveOptOutKey, optOutToken, optOutUrl, oneClickOptOutUrl, readOptOutToken } from '../../server/services/notice-opt-out'
 import { backoffSeconds, classifySendError, statusAfterFailure, MAX_ATTEMPTS } from '../../server/services/notice-policy'
 
 const BASE = 'https://rockets.saltmarsh.example'
@@ -146,5 +146,15 @@ describe('kind names', () => {
     }
     expect(isNoticeKind('toString')).toBe(false)
     expect(isNoticeKind('no_such_kind')).toBe(false)
+  })
+})
+
+describe('deriveOptOutKey', () => {
+  it('derives a key of its own from the session secret: stable, and never the secret itself', () => {
+    const secret = 'a-session-secret-of-at-least-32-characters'
+    expect(deriveOptOutKey(secret)).toBe(deriveOptOutKey(secret))
+    expect(deriveOptOutKey(secret)).not.toBe(secret)
+    expect(deriveOptOutKey(secret)).not.toBe(deriveOptOutKey(`${secret}!`))
+    expect(deriveOptOutKey(secret)).toMatch(/^[0-9a-f]{64}$/)
   })
 })

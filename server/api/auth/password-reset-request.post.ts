@@ -1,16 +1,21 @@
 import { ResetRequestSchema } from '../../../shared/schemas/auth'
 import type { MessageDto } from '../../../shared/types/accounts'
-import { requestPasswordReset } from '../../services/accounts'
+import { requestPasswordResetAfterReply } from '../../services/accounts'
+import { tokenLifetimeWords } from '../../services/tokens'
 
 /** The one answer, whether or not an account uses the e-mail: it must never reveal which. */
 const RESET_REQUESTED: MessageDto = {
   ok: true,
-  message: 'If an account uses this e-mail, a link to choose a new password is on its way. It works once, within an hour.',
+  message: `If an account uses this e-mail, a link to choose a new password is on its way. It works once and expires in ${tokenLifetimeWords('reset_password')}.`,
 }
 
-/** Ask for a password-reset link. Always 200 with the same body (400 only for a malformed address). */
+/**
+ * Ask for a password-reset link. Always 200 with the same body, answered before any look-up (400
+ * only for a malformed address; 429 past the requests an address may make in an hour).
+ */
 export default defineEventHandler(async (event): Promise<MessageDto> => {
   const { email } = await validBody(event, ResetRequestSchema)
-  await requestPasswordReset(email)
+  await countResetRequest(requestAddress(event))
+  requestPasswordResetAfterReply(event, email)
   return RESET_REQUESTED
 })

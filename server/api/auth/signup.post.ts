@@ -1,21 +1,23 @@
 import { signupSchemaFor } from '../../../shared/schemas/auth'
 import type { SignupResultDto } from '../../../shared/types/accounts'
-import { clubToday, homeClub, signUp } from '../../services/accounts'
+import { signUp } from '../../services/accounts'
+import { clubToday, homeClub } from '../../services/clubs'
 import { startSession } from '../../services/sessions'
 
 /**
  * Join the club: creates the account and a pending membership, e-mails a verification link (and a
  * junior's guardian a consent link), and signs the new member in. 201; 400 bad input (a junior
- * without guardian); 409 when the e-mail is taken.
+ * without guardian); 409 when the e-mail is taken; 429 past the sign-ups an address may make in an hour.
  */
 export default defineEventHandler(async (event): Promise<SignupResultDto> => {
   const club = await homeClub()
   const input = await validBody(event, signupSchemaFor(clubToday(club)))
+  await countSignup(requestAddress(event))
   const outcome = await signUp(input, club)
-  await startSession(event, outcome.sessionUser)
+  await startSession(event, outcome.session)
   setResponseStatus(event, 201)
   return {
-    user: outcome.sessionUser,
+    user: outcome.session.user,
     verificationSentTo: outcome.verificationSentTo,
     guardianConsentSentTo: outcome.guardianConsentSentTo,
   }

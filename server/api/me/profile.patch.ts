@@ -1,5 +1,6 @@
 import { ProfileSchema } from '../../../shared/schemas/member'
 import { updateProfile } from '../../services/standing'
+import { renameInSession } from '../../services/sessions'
 
 /**
  * Edit my own profile: name, phone, emergency contact, unit preference. Not audited (own contact
@@ -9,8 +10,6 @@ export default defineEventHandler(async (event) => {
   const actor = await requireMember(event)
   const profile = await validBody(event, ProfileSchema)
   const member = (await updateProfile(actor, profile)) ?? notFound()
-  // Replace rather than merge: merging would concatenate the roles array.
-  const { id: _sessionId, ...session } = await getUserSession(event)
-  if (session.user) await replaceUserSession(event, { ...session, user: { ...session.user, name: member.name } })
+  await renameInSession(event, member.name)
   return member
 })

@@ -1,8 +1,10 @@
 // Every migration, listed explicitly in order: a glob finds nothing inside the built server.
 import * as m0001 from './0001-foundation'
 import * as m0004 from './0004-member-directory'
+import * as m0005 from './0005-session-version'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
   { name: '0004-member-directory', ...m0004 },
+  { name: '0005-session-version', ...m0005 },
 ]

@@ -71,7 +71,7 @@ export async function seedMembers(ctx: SeedContext): Promise<void> {
     })
     const [y, m, d] = ctx.today.split('-')
     const birthDate = `${Number(y) - person.age}-${m}-${d === '29' && m === '02' ? '28' : d}`
-    const [membership] = await Membership.findOrCreate({
+    const [membership, created] = await Membership.findOrCreate({
       where: { clubId, userId: user.id },
       defaults: {
         roles: ['member', ...(person.roles ?? [])],
@@ -91,6 +91,12 @@ export async function seedMembers(ctx: SeedContext): Promise<void> {
       },
       transaction,
     })
+    if (created) {
+      // Members joined over the past years (the directory's "Joined" column), not all on seed day.
+      const joinedDaysAgo = 20 + ((ctx.memberIds.size * 97) % 1800)
+      await ctx.sequelize.query(`UPDATE memberships SET created_at = now() - make_interval(days => :days) WHERE id = :id`,
+        { replacements: { days: joinedDaysAgo, id: membership.id }, transaction })
+    }
     ctx.memberIds.set(person.email, membership.id)
   }
 }
