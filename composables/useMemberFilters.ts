@@ -1,34 +1,6 @@
-import type { LocationQuery } from 'vue-router'
 import { MemberDirectoryQuerySchema, type MemberDirectoryQuery } from '~~/shared/schemas/member'
 
 export type MemberFilters = MemberDirectoryQuery
-type FilterKey = keyof MemberFilters
-
-const DEFAULTS: MemberFilters = MemberDirectoryQuerySchema.parse({})
-const KEYS = Object.keys(MemberDirectoryQuerySchema.shape) as FilterKey[]
-
-/** Reads the filters from a route query key by key: a bad value falls back to its default alone. */
-function fromQuery(query: LocationQuery): MemberFilters {
-  const out: Record<string, unknown> = { ...DEFAULTS }
-  for (const key of KEYS) {
-    const raw = query[key]
-    if (typeof raw !== 'string' || raw === '') continue
-    const parsed = MemberDirectoryQuerySchema.shape[key].safeParse(raw)
-    if (parsed.success) out[key] = parsed.data
-  }
-  return out as MemberFilters
-}
-
-/** The filters as a short query: defaults and empty values are left out, so URLs stay readable. */
-function toQuery(filters: MemberFilters): Record<string, string> {
-  const query: Record<string, string> = {}
-  for (const key of KEYS) {
-    const value = filters[key]
-    if (value === undefined || value === '' || value === DEFAULTS[key]) continue
-    query[key] = String(value)
-  }
-  return query
-}
 
 /**
  * The member directory's filters, held in the URL query: the address of a view can be shared, and
@@ -37,18 +9,23 @@ function toQuery(filters: MemberFilters): Record<string, string> {
 export function useMemberFilters() {
   const route = useRoute()
   const router = useRouter()
-  const filters = computed(() => fromQuery(route.query))
+  const filters = computed(() => readQueryFilters(MemberDirectoryQuerySchema, route.query))
   /** The query sent to GET /api/members (the same short form as the URL). */
-  const apiQuery = computed(() => toQuery(filters.value))
+  const apiQuery = computed(() => writeQueryFilters(MemberDirectoryQuerySchema, filters.value))
   const active = computed(() => !!(filters.value.q || filters.value.status || filters.value.role))
 
   function update(patch: Partial<MemberFilters>) {
     const next = { ...filters.value, ...patch }
     if (!('page' in patch)) next.page = 1
-    return router.replace({ query: toQuery(next) })
+    return router.replace({ query: writeQueryFilters(MemberDirectoryQuerySchema, next) })
   }
   function reset() {
     return router.replace({ query: {} })
   }
-  return { filters, apiQuery, active, update, reset }
+  /** Moves a page past the end of `total` rows (an old link, a list that shrank) to the last page. */
+  function keepPageInRange(total: number) {
+    const page = clampPage(filters.value.page, total, filters.value.pageSize)
+    return page === filters.value.page ? undefined : update({ page })
+  }
+  return { filters, apiQuery, active, update, reset, keepPageInRange }
 }

@@ -64,11 +64,11 @@ async function memberCards(clubId: string, today: string, graceDays: number): Pr
   }))
 }
 
-/** members.manage: sign-ups waiting for the admin's approval. */
+/** members.manage: sign-ups waiting for the admin's approval (the pending list it links to also holds approved, unpaid members). */
 async function approvalCard(clubId: string): Promise<Card> {
   const n = await count(`SELECT count(*)::int AS n FROM memberships
     WHERE club_id = :clubId AND approved_at IS NULL AND suspended_at IS NULL AND resigned_at IS NULL`, { clubId })
-  return { key: 'pending-approvals', title: 'Sign-ups to approve', value: n, hint: n ? 'New members are waiting for you.' : 'No sign-up is waiting.', to: '/members?status=pending', tone: n ? 'attention' : 'ok', group: 'office' }
+  return { key: 'pending-approvals', title: 'Sign-ups to approve', value: n, hint: n ? 'New members wait for your approval. The pending list also shows approved members who have not paid yet.' : 'No sign-up is waiting.', to: '/members?status=pending', tone: n ? 'attention' : 'ok', group: 'office' }
 }
 
 /** notices.manage: queued and failed e-mails. */

@@ -67,7 +67,7 @@ export const NOTICE_KINDS = {
     render: v => notice(`${v.memberName} asks for your consent to join ${v.clubName}`, [
       `Hello ${v.guardianName ?? ''},`.replace(' ,', ','),
       `${v.memberName} has signed up to ${v.clubName}, a water rocketry club, and named you as their parent or guardian.`,
-      'Members under 18 train in composite handling and pressure safety before they may fill a rocket, and only under supervision.',
+      'Members under 18 train first, hold at most the club\'s junior tier (T1 by default: bottle fills up to 6 bar) and fill only under an instructor\'s supervision; composite and laminate work is for adults.',
       `If you agree to their membership, confirm with the link below (it works once and expires in ${tokenLifetimeWords('guardian_consent')}).`,
     ], { label: 'I give my consent', url: v.actionUrl }),
   },

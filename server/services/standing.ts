@@ -42,7 +42,7 @@ export function attentionFor(member: MemberDto, club: ClubDto, today: string): A
     items.push({ code: 'DUES_NEVER_PAID', message: 'Pay your first dues to become an active member.', to: '/standing' })
   }
   if (member.status === 'lapsed' && member.paidThrough) {
-    items.push({ code: 'DUES_LAPSED', message: `Your membership lapsed: dues were paid through ${long(member.paidThrough)}. Renew to train, fill and book again.`, to: '/standing' })
+    items.push({ code: 'DUES_LAPSED', message: `Your membership lapsed: dues were paid through ${long(member.paidThrough)}. Renewing lets you train and book again; a fill also needs a valid pressure tier, the current waiver, a current pressure-safety course and a vessel in service.`, to: '/standing' })
   }
   if (member.status === 'grace' && member.paidThrough) {
     const graceEnds = addCalendarDays(member.paidThrough, club.graceDays)

@@ -41,10 +41,17 @@ describe('joining the club in the browser', () => {
     expect(row).toMatchObject({ approved_at: null, paid_through: null })
     expect(row!.email_verified_at).not.toBeNull()
 
-    // Opening the same link again says it has been used.
+    // Opening the same link again, signed in and confirmed, says there is nothing left to do …
     await page.goto(link.toString(), { waitUntil: 'hydration' })
-    await page.locator('[data-testid="link-problem"][data-state="TOKEN_USED"]').waitFor()
+    await expect.poll(() => page.getByTestId('verify-already').textContent()).toContain('already confirmed')
+    expect(await page.getByTestId('verify-resend').count()).toBe(0)
     await page.close()
+
+    // … and signed out, that the link has been used.
+    const stranger = await createPage()
+    await stranger.goto(link.toString(), { waitUntil: 'hydration' })
+    await stranger.locator('[data-testid="link-problem"][data-state="TOKEN_USED"]').waitFor()
+    await stranger.close()
   })
 
   it('asks a junior for a guardian and shows their fields beside the form', async () => {
