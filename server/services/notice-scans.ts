@@ -1,11 +1,8 @@
 import { QueryTypes } from 'sequelize'
 import { Club } from '../models'
-import { addCalendarDays } from '../../shared/utils/membership-status'
+import { addCalendarDays, DUES_RENEWAL_NOTICE_DAYS } from '../../shared/utils/membership-status'
 import { clubBaseUrl, clubToday } from './clubs'
 import { enqueueNotice } from './notices'
-
-/** Days before paid-through that the dues reminder is due. */
-export const DUES_REMINDER_DAYS = 30
 
 interface DueMember { id: string, paid_through: string, email: string, name: string }
 
@@ -27,7 +24,7 @@ async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
       AND NOT EXISTS (SELECT 1 FROM notices n WHERE n.membership_id = m.id AND n.kind = 'dues_reminder'
         AND n.subject_key = m.paid_through::text AND n.due_on = m.paid_through - :days)
     ORDER BY m.paid_through, m.id`, {
-    replacements: { clubId: club.id, today, until: addCalendarDays(today, DUES_REMINDER_DAYS), days: DUES_REMINDER_DAYS },
+    replacements: { clubId: club.id, today, until: addCalendarDays(today, DUES_RENEWAL_NOTICE_DAYS), days: DUES_RENEWAL_NOTICE_DAYS },
     type: QueryTypes.SELECT,
   })
   let queued = 0
@@ -37,7 +34,7 @@ async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
       membershipId: m.id,
       kind: 'dues_reminder',
       subjectKey: m.paid_through,
-      dueOn: addCalendarDays(m.paid_through, -DUES_REMINDER_DAYS),
+      dueOn: addCalendarDays(m.paid_through, -DUES_RENEWAL_NOTICE_DAYS),
       toEmail: m.email,
       vars: { clubName: club.name, memberName: m.name, baseUrl: clubBaseUrl(club), paidThrough: m.paid_through },
     })

@@ -1,15 +1,12 @@
 import type { Club } from '../models'
 import { Membership, User } from '../models'
 import { loadMemberDto } from './members'
-import { addCalendarDays, daysBetween } from '../../shared/utils/membership-status'
+import { addCalendarDays, daysBetween, DUES_RENEWAL_NOTICE_DAYS } from '../../shared/utils/membership-status'
 import { clubToday } from './clubs'
 import { formatCalendarDate as long } from '../../shared/utils/dates'
 import type { Profile } from '../../shared/schemas/member'
 import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../shared/types/dto'
 import type { Actor } from '../utils/auth'
-
-/** Renewal reminders start this many days before the paid-through date. */
-export const DUES_EXPIRING_DAYS = 30
 
 /** The club as the member's screens see it. */
 export function toClubDto(club: Club): ClubDto {
@@ -50,7 +47,7 @@ export function attentionFor(member: MemberDto, club: ClubDto, today: string): A
   }
   if (member.status === 'active' && member.paidThrough) {
     const left = daysBetween(today, member.paidThrough)
-    if (left <= DUES_EXPIRING_DAYS) {
+    if (left <= DUES_RENEWAL_NOTICE_DAYS) {
       items.push({ code: 'DUES_EXPIRING', message: `Your dues are paid through ${long(member.paidThrough)} (${left === 0 ? 'today is the last day' : `${left} day${left === 1 ? '' : 's'} left`}). Renew in time.`, to: '/standing' })
     }
   }

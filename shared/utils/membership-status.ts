@@ -28,6 +28,9 @@ export const MEMBERSHIP_STATUS_LABELS: Record<MembershipStatus, string> = {
 
 export const DEFAULT_GRACE_DAYS = 30
 
+/** Days before the paid-through date that renewal is due: the standing page flags it and the reminder e-mail goes out. */
+export const DUES_RENEWAL_NOTICE_DAYS = 30
+
 export interface MembershipStatusInput {
   /** Calendar date (YYYY-MM-DD) the dues are paid through, or null when never paid. */
   paidThrough: string | null
