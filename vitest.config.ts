@@ -1,3 +1,4 @@
+import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 
 // Three suites. `unit` needs nothing running; `api` and `e2e` share one built server started by
@@ -6,6 +7,8 @@ export default defineConfig({
   test: {
     projects: [
       {
+        // Stores and composables import shared code through Nuxt's `~~` alias (the project root).
+        resolve: { alias: { '~~': fileURLToPath(new URL('.', import.meta.url)) } },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],

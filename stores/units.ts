@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 
-import { barToPsi, type PressureUnit } from '../shared/utils/units'
+import { barToPsi, type PressureUnit } from '~~/shared/utils/units'
 
 /**
  * The member's unit preference for showing pressures: the preferred unit first, the other in small
