@@ -2,7 +2,7 @@
 // `npm test`: the same set-up as `npm start` on its own cluster, database and ports, then lint,
 // type-check, unit, build, API and browser tests. Exits non-zero on any failure; stops what it started.
 import { execFileSync, spawnSync } from 'node:child_process'
-import { existsSync } from 'node:fs'
+import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { userInfo } from 'node:os'
 import { ROOT, TEST, ensureDir } from './lib/config.mjs'
@@ -36,17 +36,37 @@ const { prepareDatabase } = await import('./lib/database.mjs')
 
 const stoppers = []
 let exitCode = 0
+const RESULTS = join(ROOT, '.local', 'test', 'results')
+const tally = { passed: 0, failed: 0, skipped: 0 }
+
+/** Runs one Vitest project, keeping its JSON report so the run can close on one count line. */
+function vitest(label, project) {
+  const report = join(RESULTS, `${project}.json`)
+  rmSync(report, { force: true })
+  try {
+    run(label, 'npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`])
+  }
+  finally {
+    if (existsSync(report)) {
+      const r = JSON.parse(readFileSync(report, 'utf8'))
+      tally.passed += r.numPassedTests
+      tally.failed += r.numFailedTests
+      tally.skipped += r.numPendingTests + r.numTodoTests
+    }
+  }
+}
+
 const stages = {
   prepare: () => run('generate types (nuxt prepare)', 'npx', ['nuxt', 'prepare']),
   lint: () => run('lint (eslint)', 'npx', ['eslint', '.']),
   typecheck: () => run('type-check (vue-tsc)', 'npx', ['vue-tsc', '-b', '--noEmit']),
-  unit: () => run('unit tests', 'npx', ['vitest', 'run', '--project', 'unit']),
+  unit: () => vitest('unit tests', 'unit'),
   build: () => run('build (nuxt build)', 'npx', ['nuxt', 'build']),
-  api: () => run('API tests', 'npx', ['vitest', 'run', '--project', 'api']),
-  e2e: () => run('browser tests', 'npx', ['vitest', 'run', '--project', 'e2e']),
+  api: () => vitest('API tests', 'api'),
+  e2e: () => vitest('browser tests', 'e2e'),
 }
 try {
-  ensureDir(join(ROOT, '.local'))
+  ensureDir(RESULTS)
   const pg = startPostgres({ dir: TEST.pgDir, port: TEST.pgPort, database: 'postgres', fast: true })
   stoppers.push(pg.stop)
   recreateDatabase({ port: TEST.pgPort, database: TEST.database })
@@ -72,5 +92,7 @@ finally {
     }
     catch { /* already stopped */ }
   }
+  // One plain closing line with the counts of every suite that ran.
+  console.log(`\n${tally.passed} passed, ${tally.failed} failed` + (tally.skipped ? `, ${tally.skipped} skipped` : ''))
 }
 process.exit(exitCode)
