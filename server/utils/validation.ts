@@ -8,43 +8,82 @@ type Schema<T> = ZodType<T, ZodTypeDef, unknown>
 // eslint-disable-next-line no-control-regex
 const CONTROL_CHARS = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/
 
-/** The path of the first string inside `value` that holds a control character, or null. */
-export function findControlChars(value: unknown, path: string[] = []): string | null {
-  if (typeof value === 'string') return CONTROL_CHARS.test(value) ? (path.join('.') || '_') : null
-  if (value && typeof value === 'object') {
-    for (const [key, inner] of Object.entries(value)) {
-      const found = findControlChars(inner, [...path, key])
-      if (found) return found
-    }
-  }
-  return null
+/** The largest JSON body any route takes (the longest field, a waiver text, is 20 000 characters). */
+export const MAX_BODY_BYTES = 64 * 1024
+/** How deeply a body may nest; our schemas need three levels at most. */
+export const MAX_BODY_DEPTH = 20
+
+interface Node { value: unknown, key: string | null, parent: Node | null, depth: number }
+
+function pathOf(node: Node): string {
+  const parts: string[] = []
+  for (let n: Node | null = node; n && n.key !== null; n = n.parent) parts.unshift(n.key)
+  return parts.join('.') || '_'
 }
 
-function refuseControlChars(value: unknown): void {
-  const field = findControlChars(value)
-  if (!field) return
-  const message = 'Text may not contain control characters'
+/**
+ * Walks a parsed body without recursion (a hostile body cannot exhaust the stack): whether it nests
+ * deeper than `maxDepth`, and the path of the first string holding a control character.
+ */
+export function scanBody(value: unknown, maxDepth = MAX_BODY_DEPTH): { tooDeep: boolean, controlAt: string | null } {
+  const stack: Node[] = [{ value, key: null, parent: null, depth: 0 }]
+  while (stack.length) {
+    const node = stack.pop()!
+    if (typeof node.value === 'string') {
+      if (CONTROL_CHARS.test(node.value)) return { tooDeep: false, controlAt: pathOf(node) }
+    }
+    else if (node.value && typeof node.value === 'object') {
+      if (node.depth >= maxDepth) return { tooDeep: true, controlAt: null }
+      const entries = Object.entries(node.value)
+      for (let i = entries.length - 1; i >= 0; i--) stack.push({ value: entries[i]![1], key: entries[i]![0], parent: node, depth: node.depth + 1 })
+    }
+  }
+  return { tooDeep: false, controlAt: null }
+}
+
+/** The path of the first string inside `value` that holds a control character, or null. */
+export function findControlChars(value: unknown): string | null {
+  return scanBody(value, Number.POSITIVE_INFINITY).controlAt
+}
+
+function badRequest(message: string, field?: string): never {
   throw createError({
     statusCode: 400,
     statusMessage: 'Bad Request',
-    message: field === '_' ? message : `${field}: ${message}`,
-    data: { fields: { [field]: message } },
+    message: field && field !== '_' ? `${field}: ${message}` : message,
+    data: field ? { fields: { [field]: message } } : undefined,
   })
 }
 
-/** Reads the JSON body and parses it with `schema`; 400 with field messages when it does not fit. */
+function refuseBadShape(value: unknown): void {
+  const { tooDeep, controlAt } = scanBody(value)
+  if (tooDeep) badRequest('The body is nested too deeply')
+  if (controlAt) badRequest('Text may not contain control characters', controlAt)
+}
+
+function tooLarge(): never {
+  throw createError({ statusCode: 413, statusMessage: 'Payload Too Large', message: `The body is larger than ${MAX_BODY_BYTES / 1024} KB` })
+}
+
+/**
+ * Reads the JSON body (at most MAX_BODY_BYTES, 413 beyond) and parses it with `schema`; 400 with
+ * field messages when it does not fit, when it is not a JSON object, or when it holds control characters.
+ */
 export async function validBody<T>(event: H3Event, schema: Schema<T>): Promise<T> {
-  let raw: unknown
-  try {
-    raw = await readBody(event)
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_BODY_BYTES) tooLarge()
+  const text = await readRawBody(event, 'utf8')
+  if (text && Buffer.byteLength(text) > MAX_BODY_BYTES) tooLarge()
+  let raw: unknown = {}
+  if (text?.trim()) {
+    try {
+      raw = JSON.parse(text)
+    }
+    catch {
+      badRequest('The body is not valid JSON')
+    }
   }
-  catch {
-    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The body is not valid JSON' })
-  }
-  if (typeof raw === 'string') {
-    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The body is not valid JSON' })
-  }
-  refuseControlChars(raw)
+  if (typeof raw !== 'object') badRequest('The body is not valid JSON')
+  refuseBadShape(raw)
   const result = schema.safeParse(raw ?? {})
   if (!result.success) badInput(result.error)
   return result.data
@@ -53,7 +92,7 @@ export async function validBody<T>(event: H3Event, schema: Schema<T>): Promise<T
 /** Parses the query string with `schema`; 400 when it does not fit. */
 export function validQuery<T>(event: H3Event, schema: Schema<T>): T {
   const query = getQuery(event)
-  refuseControlChars(query)
+  refuseBadShape(query)
   const result = schema.safeParse(query)
   if (!result.success) badInput(result.error)
   return result.data

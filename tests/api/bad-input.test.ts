@@ -20,7 +20,8 @@ const NO_BODY: Record<string, string> = {
 const FIELDS = ['name', 'email', 'password', 'token', 'reason', 'version', 'typedName', 'title', 'body', 'birthDate',
   'phone', 'unitPreference', 'guardianName', 'guardianEmail', 'emergencyContactName', 'emergencyContactPhone']
 const wrongTypes = { ...Object.fromEntries(FIELDS.map(f => [f, 12345])), roles: 'admin', optOuts: 'all' }
-const huge = 'x'.repeat(30_000)
+// Long enough to break every field's limit while the whole body stays under the 64 KB cap (then 413).
+const huge = 'x'.repeat(3000)
 const oversize = { ...Object.fromEntries(FIELDS.map(f => [f, huge])), roles: [huge], optOuts: [huge], version: 1 }
 
 const PAYLOADS: [string, string | object][] = [
@@ -30,6 +31,8 @@ const PAYLOADS: [string, string | object][] = [
   ['wrong types', wrongTypes],
   ['missing fields', {}],
   ['oversize strings', oversize],
+  ['a body over 64 KB', { name: 'x'.repeat(70_000) }],
+  ['JSON nested 5000 deep', `${'['.repeat(5000)}${']'.repeat(5000)}`],
   ['NUL and other control characters', { ...Object.fromEntries(FIELDS.map(f => [f, 'Ann\u0000\u001B'])), roles: ['member'], version: 1 }],
 ]
 

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest'
-import { findControlChars } from '../../server/utils/validation'
+import { findControlChars, scanBody, MAX_BODY_DEPTH } from '../../server/utils/validation'
 
 describe('findControlChars (refused in every body and query)', () => {
   it.each([
@@ -13,5 +13,26 @@ describe('findControlChars (refused in every body and query)', () => {
     ['numbers and null', { n: 1, m: null }, null],
   ])('%s → %s', (_label, value, expected) => {
     expect(findControlChars(value)).toBe(expected)
+  })
+})
+
+describe('scanBody (the shape every body must have)', () => {
+  const nested = (depth: number): unknown => {
+    let v: unknown = 'leaf'
+    for (let i = 0; i < depth; i++) v = [v]
+    return v
+  }
+
+  it('accepts the nesting our schemas use', () => {
+    expect(scanBody({ roles: ['member'], reason: 'ok' })).toEqual({ tooDeep: false, controlAt: null })
+  })
+
+  it.each([[MAX_BODY_DEPTH, false], [MAX_BODY_DEPTH + 1, true]])('at depth %d, too deep: %s', (depth, tooDeep) => {
+    expect(scanBody(nested(depth)).tooDeep).toBe(tooDeep)
+  })
+
+  it('walks a hostile 100 000-deep body without exhausting the stack', () => {
+    expect(findControlChars(nested(100_000))).toBeNull()
+    expect(scanBody(nested(100_000)).tooDeep).toBe(true)
   })
 })
