@@ -109,9 +109,17 @@ export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: numbe
           result[await recordFailure(notice, error, message) === 'failed' ? 'failed' : 'retried'] += 1
           continue
         }
-        // The server is down: the rest of this batch would fail the same way; try them all later.
-        for (const rest of batch.slice(index)) await recordFailure(rest, error, `Mail server unreachable: ${message}`)
-        result.retried += batch.length - index
+        // The server is down: the rest of this batch would fail the same way; try them all later
+        // (an opted-out one is settled now: it will never be sent).
+        for (const rest of batch.slice(index)) {
+          if (optedOut(rest)) {
+            await finish(rest.id, `status = 'skipped', last_error = 'The member opted out of this kind'`)
+            result.skipped += 1
+            continue
+          }
+          await recordFailure(rest, error, `Mail server unreachable: ${message}`)
+          result.retried += 1
+        }
         return result
       }
     }

@@ -11,9 +11,9 @@ function useTransport(): Transporter {
       port: Number(c.smtpPort),
       secure: String(c.smtpSecure) === 'true',
       auth: c.smtpUser ? { user: c.smtpUser, pass: c.smtpPass } : undefined,
-      connectionTimeout: 5000,
-      greetingTimeout: 5000,
-      socketTimeout: 10_000,
+      connectionTimeout: 10_000,
+      greetingTimeout: 10_000,
+      socketTimeout: 20_000,
     })
   }
   return transporter
