@@ -53,6 +53,15 @@ export async function signIn(email: string, password: string, address: string): 
   return session
 }
 
+/**
+ * Locks account `userId`'s row FOR UPDATE inside `transaction` and returns it. Account writes take
+ * this lock before touching the account's links or notices (the lock order is written down in
+ * services/member-actions.ts), so two of them for one account queue up instead of deadlocking.
+ */
+async function lockUser(userId: string, transaction: Transaction): Promise<User> {
+  return User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE, rejectOnEmpty: true })
+}
+
 /** The member as the actor of their own action (sign-up, password reset), for the audit trail. */
 function selfActor(user: User, membership: Membership, club: Club): Actor {
   return { user, membership, club, roles: ['member'], status: 'pending' }
@@ -145,19 +154,25 @@ export async function verifyEmail(token: string): Promise<EmailVerifiedDto> {
     const user = await User.findByPk(row.userId, { transaction, rejectOnEmpty: true })
     if (!user.emailVerifiedAt) await user.update({ emailVerifiedAt: new Date() }, { transaction })
     return user.email
-  })
+  }).catch(mapDbError)
   return { verified: true, email }
 }
 
-/** E-mails the signed-in member a fresh verification link. 422 when already verified; 429 after a few in an hour. */
+/**
+ * E-mails the signed-in member a fresh verification link. 422 when already verified; 429 after a
+ * few in an hour (counted with the account's row locked, so parallel requests cannot outrun it).
+ */
 export async function resendVerification(actor: Actor): Promise<{ sentTo: string }> {
   if (actor.user.emailVerifiedAt) {
     refuse({ code: 'EMAIL_ALREADY_VERIFIED', message: 'Your e-mail address is already confirmed.' })
   }
-  if (await recentTokenCount(actor.user.id, 'verify_email', 60) >= RESEND_MAX_PER_HOUR) {
-    throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: 'Several links were sent in the last hour. Check your inbox, or try again later.' })
-  }
-  await useDb().transaction(transaction => queueVerification(actor.club, actor.user, actor.membership, transaction))
+  await useDb().transaction(async (transaction) => {
+    await lockUser(actor.user.id, transaction)
+    if (await recentTokenCount(actor.user.id, 'verify_email', 60, transaction) >= RESEND_MAX_PER_HOUR) {
+      throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: 'Several links were sent in the last hour. Check your inbox, or try again later.' })
+    }
+    await queueVerification(actor.club, actor.user, actor.membership, transaction)
+  }).catch(mapDbError)
   kickNoticeQueue()
   return { sentTo: actor.user.email }
 }
@@ -165,7 +180,8 @@ export async function resendVerification(actor: Actor): Promise<{ sentTo: string
 /**
  * Queues a password-reset link when an account with membership in the club uses `email`; does
  * nothing otherwise. Repeated requests beyond a few in a short window send nothing more (no inbox
- * flooding). Routes call `requestPasswordResetAfterReply` instead, so the reply never waits on it.
+ * flooding; counted with the account's row locked, so parallel requests cannot outrun the limit).
+ * Routes call `requestPasswordResetAfterReply` instead, so the reply never waits on it.
  */
 export async function requestPasswordReset(email: string): Promise<void> {
   const club = await homeClub()
@@ -173,8 +189,9 @@ export async function requestPasswordReset(email: string): Promise<void> {
   if (!user) return
   const membership = await Membership.findOne({ where: { userId: user.id, clubId: club.id } })
   if (!membership) return
-  if (await recentTokenCount(user.id, 'reset_password', RESET_WINDOW_MINUTES) >= RESET_MAX_PER_WINDOW) return
-  await useDb().transaction(async (transaction) => {
+  const queued = await useDb().transaction(async (transaction) => {
+    await lockUser(user.id, transaction)
+    if (await recentTokenCount(user.id, 'reset_password', RESET_WINDOW_MINUTES, transaction) >= RESET_MAX_PER_WINDOW) return false
     const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'reset_password' }, transaction)
     await enqueueNotice({
       clubId: club.id,
@@ -185,8 +202,9 @@ export async function requestPasswordReset(email: string): Promise<void> {
       toEmail: user.email,
       vars: { clubName: club.name, memberName: user.name, baseUrl: clubBaseUrl(club), actionUrl: linkFor(club, '/reset-password', issued.token) },
     }, transaction)
+    return true
   })
-  kickNoticeQueue()
+  if (queued) kickNoticeQueue()
 }
 
 /**
@@ -204,16 +222,18 @@ export function requestPasswordResetAfterReply(event: H3Event, email: string): v
  * Sets a new password from an e-mailed reset link: uses the link once, stops every other reset
  * link of the account, confirms the e-mail (the link proved it), ends every session begun before
  * (the session version goes up), clears the sign-in failures and records the change in the audit
- * trail — all in one transaction. 422 when the link cannot be used.
+ * trail — all in one transaction, which first locks the account's row: two reset links of one
+ * account used at once queue up (the second finds its link revoked, 422) instead of deadlocking.
+ * 422 when the link cannot be used; 409 if the database still reports a conflict.
  */
 export async function resetPassword(token: string, password: string): Promise<void> {
   // Look at the link before the slow hash (a dead link costs no scrypt), and hash before the
   // transaction (no transaction waits on it); the conditional consume below still settles races.
-  await peekToken(token, 'reset_password')
+  const peeked = await peekToken(token, 'reset_password')
   const passwordHash = await hashPassword(password)
   const email = await useDb().transaction(async (transaction) => {
+    const user = await lockUser(peeked.userId, transaction)
     const row = await consumeToken(token, 'reset_password', transaction)
-    const user = await User.findByPk(row.userId, { transaction, rejectOnEmpty: true })
     const membership = row.membershipId
       ? await Membership.findByPk(row.membershipId, { transaction, include: [{ model: Club, as: 'club' }] })
       : null
@@ -233,7 +253,7 @@ export async function resetPassword(token: string, password: string): Promise<vo
       }, transaction)
     }
     return user.email
-  })
+  }).catch(mapDbError)
   await clearLoginFailures(email.toLowerCase())
 }
 
@@ -265,10 +285,13 @@ export async function guardianConsentPreview(token: string): Promise<GuardianCon
 
 /**
  * Records the guardian's consent from their e-mailed link (works once), with an audit event; the
- * actor is the guardian, who has no account, so the trail names them in the reason.
+ * actor is the guardian, who has no account, so the trail names them in the reason. The membership
+ * row is locked before the link is used (the one lock order, see services/member-actions.ts).
  */
 export async function confirmGuardianConsent(token: string): Promise<GuardianConsentDto> {
+  const peeked = await peekToken(token, 'guardian_consent')
   return useDb().transaction(async (transaction) => {
+    if (peeked.membershipId) await Membership.findByPk(peeked.membershipId, { transaction, lock: transaction.LOCK.UPDATE })
     const row = await consumeToken(token, 'guardian_consent', transaction)
     const m = await consentContext(row.membershipId, transaction)
     // A second link for a junior who already has consent changes nothing (and records nothing).
@@ -283,5 +306,5 @@ export async function confirmGuardianConsent(token: string): Promise<GuardianCon
       reason: `Consent confirmed by the guardian (${m.guardianName ?? 'unnamed'}, ${m.guardianEmail ?? 'no e-mail'}) from the e-mailed link`,
     }, transaction)
     return consentDto(m)
-  })
+  }).catch(mapDbError)
 }

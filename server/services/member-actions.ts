@@ -1,4 +1,4 @@
-import type { Transaction } from 'sequelize'
+import { QueryTypes, type Transaction } from 'sequelize'
 import { ZodError } from 'zod'
 import { Membership, User } from '../models'
 import { isJunior, membershipStatus, statusKeepsRights, type MembershipStatus } from '../../shared/utils/membership-status'
@@ -9,11 +9,18 @@ import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
 import { recordAudit } from './audit'
 import { clubBaseUrl, clubToday } from './clubs'
-import { enqueueNotice } from './notices'
+import { SCRUB_LINKS_SQL, enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
 import { loadMemberDto } from './members'
 import { queueGuardianConsent } from './accounts'
 import { revokeTokens } from './tokens'
+
+// THE LOCK ORDER for every write that touches a member: first the membership row(s) (FOR UPDATE,
+// in id order when there are two), then the account's `users` row, then that member's action_tokens
+// and notices. Member actions here, the member's own profile edit (services/standing.ts), password
+// resets, link requests and guardian consent (services/accounts.ts) all keep to it, so two of them
+// for one member wait for each other instead of deadlocking; mapDbError answers 409 should the
+// database still report a deadlock.
 
 export const MEMBERSHIP_ACTIONS = ['approve', 'suspend', 'reinstate', 'resign', 'rejoin'] as const
 export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
@@ -163,11 +170,27 @@ function refuseFields(issues: FieldIssue[]): never {
 }
 
 /**
- * Stops the guardian's outstanding consent links, issues a fresh one to the current guardian
+ * Stops the guardian's outstanding consent links and skips this membership's consent e-mails still
+ * waiting in the queue (queued, or sending with an expired lease), blanking their links, inside
+ * `transaction`. Returns how many links were stopped.
+ */
+async function stopConsentLinks(m: Membership, user: User, transaction: Transaction): Promise<number> {
+  const stopped = await revokeTokens(user.id, 'guardian_consent', transaction)
+  await useDb().query(`
+    UPDATE notices SET ${SCRUB_LINKS_SQL}, status = 'skipped', last_error = 'Replaced by a newer consent link',
+      locked_until = NULL, updated_at = now()
+    WHERE membership_id = :id AND kind = 'guardian_consent'
+      AND (status = 'queued' OR (status = 'sending' AND locked_until < now()))`,
+  { replacements: { id: m.id }, type: QueryTypes.UPDATE, transaction })
+  return stopped
+}
+
+/**
+ * Stops the guardian's outstanding consent links (and their queued e-mails), issues a fresh one to the current guardian
  * e-mail and audits the request, inside `transaction`. The caller kicks the notice queue after commit.
  */
 async function requestConsent(actor: Actor, m: Membership, user: User, reason: string, transaction: Transaction): Promise<void> {
-  const linksStopped = await revokeTokens(user.id, 'guardian_consent', transaction)
+  const linksStopped = await stopConsentLinks(m, user, transaction)
   await queueGuardianConsent(actor.club, user, m, transaction)
   await recordAudit(actor, actor.club.id, {
     action: 'member.guardian_consent_request',
@@ -232,7 +255,7 @@ export async function editMember(actor: Actor, id: string, edit: MemberEdit): Pr
     if (askGuardian) {
       await requestConsent(actor, m, user, reason ?? 'Guardian details changed: consent asked of the new guardian', transaction)
     }
-    else if (guardianChanged) await revokeTokens(user.id, 'guardian_consent', transaction)
+    else if (guardianChanged) await stopConsentLinks(m, user, transaction)
     return askGuardian
   })
   if (consentQueued) kickNoticeQueue()

@@ -5,6 +5,7 @@ import type { Actor } from '../utils/auth'
 import { recordAudit } from './audit'
 import { NOTICE_KINDS, noticeKindLabel } from './notice-kinds'
 import { kickNoticeQueue } from './notice-queue'
+import { ONE_TIME_LINK_KINDS } from './notices'
 
 interface NoticeRow {
   id: string
@@ -67,18 +68,22 @@ export async function listOutbox(club: { id: string, timeZone: string }, q: Outb
 
 /**
  * Puts a notice of the actor's club back in the queue, due now (failed, skipped or still queued),
- * with an audit event. 404 when it is not in the club; 409 when it was sent or is being sent.
+ * with an audit event. 404 when it is not in the club; 409 when it was sent or is being sent; 422
+ * LINK_REMOVED for a failed or skipped notice whose one-time link has been blanked.
  */
 export async function retryNotice(actor: Actor, noticeId: string): Promise<NoticeDto> {
   const clubId = actor.club.id
   const db = useDb()
   const dto = await db.transaction(async (transaction) => {
-    const [before] = await db.query<{ status: string, attempts: number, last_error: string | null }>(
-      'SELECT status, attempts, last_error FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    const [before] = await db.query<{ status: string, kind: string, attempts: number, last_error: string | null }>(
+      'SELECT status, kind, attempts, last_error FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
       { replacements: { id: noticeId, clubId }, type: QueryTypes.SELECT, transaction })
     if (!before) notFound('No such notice')
     if (before.status === 'sent') conflict('This notice has already been sent.')
     if (before.status === 'sending') conflict('This notice is being sent right now.')
+    if (before.status !== 'queued' && (ONE_TIME_LINK_KINDS as readonly string[]).includes(before.kind)) {
+      refuse({ code: 'LINK_REMOVED', message: 'This e-mail carried a one-time link, which was removed when it failed or was skipped. The member (or guardian) has to ask for a new link.' })
+    }
     await db.query(`UPDATE notices SET status = 'queued', next_attempt_at = now(), locked_until = NULL, updated_at = now()
       WHERE id = :id`, { replacements: { id: noticeId }, transaction })
     await recordAudit(actor, clubId, {
@@ -91,7 +96,7 @@ export async function retryNotice(actor: Actor, noticeId: string): Promise<Notic
     const [row] = await db.query<NoticeRow>(`${SELECT_NOTICE} WHERE n.id = :id`,
       { replacements: { id: noticeId }, type: QueryTypes.SELECT, transaction })
     return toNoticeDto(row!)
-  })
+  }).catch(mapDbError)
   kickNoticeQueue()
   return dto
 }

@@ -48,7 +48,7 @@ export async function previewOptOut(token: string): Promise<OptOutPreviewDto> {
 export async function applyOptOut(token: string): Promise<OptOutPreviewDto> {
   const { member, kind, def } = await memberOfToken(token)
   if (!def.optional) refuse(NOT_OPTIONAL)
-  await useDb().transaction(t => addOptOuts(member.id, [kind], t))
+  await useDb().transaction(t => addOptOuts(member.id, [kind], t)).catch(mapDbError)
   return preview(member, kind, def, true)
 }
 
@@ -83,6 +83,6 @@ export async function saveNoticeSettings(membershipId: string, optOuts: string[]
     await useDb().query(`UPDATE memberships SET notice_opt_outs = ARRAY(SELECT k FROM unnest(notice_opt_outs) k WHERE NOT (k = ANY(ARRAY[:optional]::text[])) ORDER BY 1),
       updated_at = now() WHERE id = :id`, { replacements: { id: membershipId, optional: optionalNoticeKinds() }, transaction })
     if (kinds.length) await addOptOuts(membershipId, kinds, transaction)
-  })
+  }).catch(mapDbError)
   return noticeSettings(membershipId)
 }

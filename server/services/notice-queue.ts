@@ -2,7 +2,7 @@ import { QueryTypes } from 'sequelize'
 import { sendMail } from '../utils/mail'
 import { NOTICE_KINDS, isNoticeKind } from './notice-kinds'
 import { oneClickOptOutUrl } from './notice-opt-out'
-import { optOutSecret } from './notices'
+import { SCRUB_LINKS_SQL, optOutSecret } from './notices'
 import { clubBaseUrl } from './clubs'
 import { backoffSeconds, classifySendError, statusAfterFailure } from './notice-policy'
 
@@ -69,7 +69,8 @@ const optedOut = (n: ClaimedNotice) => isNoticeKind(n.kind) && NOTICE_KINDS[n.ki
 async function recordFailure(notice: ClaimedNotice, error: unknown, message: string): Promise<'queued' | 'failed'> {
   const attempts = notice.attempts + 1
   const status = statusAfterFailure(classifySendError(error), attempts)
-  await finish(notice.id, `status = :status, attempts = :attempts, last_error = :message,
+  // A notice given up on keeps no usable one-time link.
+  await finish(notice.id, `${status === 'failed' ? `${SCRUB_LINKS_SQL}, ` : ''}status = :status, attempts = :attempts, last_error = :message,
     next_attempt_at = now() + make_interval(secs => :wait)`, { status, attempts, message: message.slice(0, 500), wait: backoffSeconds(attempts) })
   return status
 }
@@ -78,7 +79,8 @@ async function recordFailure(notice: ClaimedNotice, error: unknown, message: str
  * Sends every due notice once (only club `clubId`'s when given). A send that fails because the mail
  * server cannot be reached puts the notice — and the rest of its batch — back in the queue with a
  * backoff and ends the run: nothing is lost and nothing is sent twice. A permanent rejection (5xx)
- * marks it `failed`; a member who opted out after it was queued makes it `skipped`.
+ * marks it `failed`; a member who opted out after it was queued makes it `skipped`. A sent, skipped
+ * or failed notice with a one-time link has the link's token blanked in its stored bodies.
  */
 export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: number } = {}): Promise<QueueRun> {
   const result: QueueRun = { sent: 0, retried: 0, failed: 0, skipped: 0 }
@@ -94,13 +96,13 @@ export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: numbe
     handled += batch.length
     for (const [index, notice] of batch.entries()) {
       if (optedOut(notice)) {
-        await finish(notice.id, `status = 'skipped', last_error = 'The member opted out of this kind'`)
+        await finish(notice.id, `${SCRUB_LINKS_SQL}, status = 'skipped', last_error = 'The member opted out of this kind'`)
         result.skipped += 1
         continue
       }
       try {
         await sendMail({ to: notice.to_email, subject: notice.subject, text: notice.text_body, html: notice.html_body, headers: listHeaders(notice) })
-        await finish(notice.id, `status = 'sent', sent_at = now(), attempts = attempts + 1, last_error = NULL`)
+        await finish(notice.id, `${SCRUB_LINKS_SQL}, status = 'sent', sent_at = now(), attempts = attempts + 1, last_error = NULL`)
         result.sent += 1
       }
       catch (error) {

@@ -11,6 +11,20 @@ export function optOutSecret(): string {
   return optOutKey
 }
 
+/**
+ * Kinds whose e-mail carries a one-time link. Their stored bodies hold the link (the token in
+ * clear) only while the notice may still be sent: once it is sent, skipped or has failed for good
+ * the token is blanked (SCRUB_LINKS_SQL), so the database keeps no usable link.
+ */
+export const ONE_TIME_LINK_KINDS = ['email_verification', 'password_reset', 'guardian_consent'] as const
+
+const linkKinds = ONE_TIME_LINK_KINDS.map(kind => `'${kind}'`).join(', ')
+const scrubColumn = (column: string) =>
+  `${column} = CASE WHEN kind IN (${linkKinds}) THEN regexp_replace(${column}, 'token=[A-Za-z0-9_-]+', 'token=removed', 'g') ELSE ${column} END`
+
+/** SQL SET assignments that blank the token of a one-time link in a notice's stored text and HTML bodies. */
+export const SCRUB_LINKS_SQL = `${scrubColumn('text_body')}, ${scrubColumn('html_body')}`
+
 export interface EnqueueInput {
   clubId: string
   membershipId: string

@@ -83,17 +83,21 @@ export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
 
 /**
  * The member's own profile edit: name (on the account) and contact details (on the membership),
- * in one transaction. Not audited: contact details are the member's own, not a privileged change.
+ * in one transaction that locks the membership row, then the account's (as a member edit does).
+ * Not audited: contact details are the member's own, not a privileged change.
  * Fields left out are kept; fields sent empty are cleared.
  */
 export async function updateProfile(actor: Actor, profile: Profile): Promise<MemberDto | null> {
   const { name, ...contact } = profile
   const changes = Object.fromEntries(Object.entries(contact).filter(([, v]) => v !== undefined))
   await useDb().transaction(async (transaction) => {
+    // The one lock order (services/member-actions.ts): the membership row, then the account's.
+    await Membership.findOne({ where: { id: actor.membership.id, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
+    await User.findByPk(actor.user.id, { transaction, lock: transaction.LOCK.UPDATE })
     await User.update({ name }, { where: { id: actor.user.id }, transaction })
     if (Object.keys(changes).length) {
       await Membership.update(changes, { where: { id: actor.membership.id, clubId: actor.club.id }, transaction })
     }
-  })
+  }).catch(mapDbError)
   return loadMemberDto(actor.club.id, actor.membership.id)
 }

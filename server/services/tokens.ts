@@ -22,7 +22,11 @@ export function tokenLifetimeWords(purpose: TokenPurpose): string {
 
 export interface IssuedToken {
   id: string
-  /** The secret that goes into the e-mailed link; never stored. */
+  /**
+   * The secret that goes into the e-mailed link. action_tokens keeps only its SHA-256; the queued
+   * notice's bodies hold the link until the notice is sent, skipped or fails for good, when the
+   * queue blanks it (services/notices.ts, scrubLinksSql).
+   */
   token: string
   expiresAt: Date
 }
@@ -38,7 +42,7 @@ export interface TokenRow {
 
 const TOKEN_COLUMNS = 'id, user_id AS "userId", membership_id AS "membershipId", purpose, expires_at AS "expiresAt", used_at AS "usedAt"'
 
-/** SHA-256 (hex) of a link token: the only form in which a token is stored. */
+/** SHA-256 (hex) of a link token: the form in which action_tokens stores it (see IssuedToken.token). */
 export function hashToken(token: string): string {
   return createHash('sha256').update(token).digest('hex')
 }
@@ -110,10 +114,10 @@ export async function revokeTokens(userId: string, purpose: TokenPurpose, transa
 }
 
 /** How many tokens of `purpose` were issued for `userId` in the last `minutes` (to damp repeated requests). */
-export async function recentTokenCount(userId: string, purpose: TokenPurpose, minutes: number): Promise<number> {
+export async function recentTokenCount(userId: string, purpose: TokenPurpose, minutes: number, transaction?: Transaction): Promise<number> {
   const [row] = await useDb().query<{ n: number }>(`
     SELECT count(*)::int AS n FROM action_tokens
     WHERE user_id = :userId AND purpose = :purpose AND created_at > now() - make_interval(mins => :minutes)`,
-  { replacements: { userId, purpose, minutes }, type: QueryTypes.SELECT })
+  { replacements: { userId, purpose, minutes }, type: QueryTypes.SELECT, transaction })
   return row?.n ?? 0
 }

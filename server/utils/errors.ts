@@ -39,9 +39,13 @@ export function badInput(error: ZodError): never {
   })
 }
 
+/** The 409 message when the database gave up on a write because another one held the same record. */
+export const CONCURRENT_CHANGE_MESSAGE = 'Another change to the same record happened at the same moment; try again.'
+
 /**
- * Maps database constraint errors to client errors (409/422) so a request can never produce a 500
- * by tripping a constraint; anything else is rethrown.
+ * Maps database constraint errors to client errors (409/422), and a deadlock or serialization
+ * failure to 409, so a request can never produce a 500 by tripping a constraint or racing another
+ * write; anything else is rethrown.
  */
 export function mapDbError(error: unknown): never {
   if (error instanceof UniqueConstraintError) conflict('That already exists.')
@@ -49,6 +53,8 @@ export function mapDbError(error: unknown): never {
   if (error instanceof ValidationError) refuse({ code: 'INVALID_RECORD', message: error.message })
   if (error instanceof DatabaseError) {
     const code = (error.parent as { code?: string } | undefined)?.code
+    // deadlock detected, serialization failure: two writes to one record at once; the client may retry
+    if (code === '40P01' || code === '40001') conflict(CONCURRENT_CHANGE_MESSAGE)
     // check violation, too long, bad date/time, out of range, bad text representation, NUL in text/JSON, bad encoding
     if (['23514', '22001', '22003', '22007', '22008', '22P02', '22P05', '22021'].includes(code ?? '')) {
       refuse({ code: 'INVALID_RECORD', message: 'The database refused a value that is out of range.' })

@@ -76,6 +76,17 @@ async function lockAccountRow(userId: string): Promise<() => Promise<void>> {
   }
 }
 
+/** Waits until `check` returns something truthy (15 s at most) and returns it. */
+async function eventually<T>(check: () => Promise<T | null | undefined | false>): Promise<T> {
+  const deadline = Date.now() + 15_000
+  for (;;) {
+    const value = await check()
+    if (value) return value
+    if (Date.now() > deadline) throw new Error('condition not met within 15 s')
+    await new Promise(r => setTimeout(r, 200))
+  }
+}
+
 /** `promise`'s value, or 'timed out' when it takes longer than `ms`. */
 function within<T>(promise: Promise<T>, ms: number): Promise<T | 'timed out'> {
   let timer: NodeJS.Timeout | undefined
@@ -109,6 +120,15 @@ describe('sign-up and e-mail verification', () => {
     // Links use the club's public address (the test server's), never the request's host.
     expect(link.origin).toBe(new URL(inject('baseUrl')).origin)
     expect(mail.html).toContain(link.search.replace(/&/g, '&amp;'))
+
+    // Once sent, the stored notice keeps no usable link: the token is blanked in both bodies.
+    const notice = await eventually(async () => (await sql<{ status: string, text_body: string, html_body: string }>(
+      `SELECT status, text_body, html_body FROM notices WHERE membership_id = $1 AND kind = 'email_verification'`, [membership!.id]))
+      .find(n => n.status === 'sent'))
+    for (const body of [notice.text_body, notice.html_body]) {
+      expect(body).not.toContain(tokenOf(link))
+      expect(body).toContain('/verify-email?token=removed')
+    }
 
     const first = await api('/api/auth/verify-email', { body: { token: tokenOf(link) } })
     expect(first.status).toBe(200)
@@ -152,6 +172,17 @@ describe('sign-up and e-mail verification', () => {
     expect(again.status).toBe(422)
     expect(again.body.data.reasons[0].code).toBe('EMAIL_ALREADY_VERIFIED')
     expect((await api('/api/auth/resend-verification', { method: 'POST' })).status).toBe(401)
+  })
+
+  it('keeps to five verification links an hour even when the requests come at once', async () => {
+    const email = uniqueEmail('resend-burst')
+    const signup = await api('/api/auth/signup', { body: adultSignup(email) })
+    const cookie = sessionCookieOf(signup)
+    const answers = await Promise.all(Array.from({ length: 8 }, () => api('/api/auth/resend-verification', { method: 'POST', as: cookie })))
+    // The sign-up's link is the first of the five.
+    expect(answers.map(a => a.status).sort()).toEqual([200, 200, 200, 200, 429, 429, 429, 429])
+    const tokens = await sql(`SELECT id FROM action_tokens WHERE user_id = $1 AND purpose = 'verify_email'`, [signup.body.user.id])
+    expect(tokens).toHaveLength(5)
   })
 
   it('answers 409 for an e-mail already in use in another case, and writes nothing', async () => {
@@ -350,6 +381,11 @@ describe('password reset', () => {
       const res = await api('/api/me', { as: stale })
       expect(res.status).toBe(401)
       expect(res.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))).toMatch(/^nuxt-session=;/)
+      // The session endpoint (which the server-rendered page reads too) shows no user either.
+      const shown = await api('/api/_auth/session', { as: stale })
+      expect(shown.status).toBe(401)
+      expect(shown.body.user).toBeUndefined()
+      expect(shown.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))).toMatch(/^nuxt-session=;/)
     }
 
     // A session begun after the reset works, and keeps working after the profile rewrites it.
@@ -381,6 +417,25 @@ describe('password reset', () => {
     expect((await login(member.email, won[0]!)).status).toBe(200)
     const [row] = await sql<{ session_version: number }>('SELECT session_version FROM users WHERE id = $1', [member.userId])
     expect(row!.session_version).toBe(1)
+  })
+
+  it('two reset links of one account used at once: one sets the password, the other is refused, never a 500', async () => {
+    const members = await Promise.all([1, 2, 3].map(() => makeMember()))
+    await Promise.all(members.map(async (member) => {
+      for (let i = 0; i < 2; i++) expect((await api('/api/auth/password-reset-request', { body: { email: member.email } })).status).toBe(200)
+      const tokens = (await waitForMails(member.email, RESET_SUBJECT, 2)).map(m => tokenOf(linkIn(m, '/reset-password')))
+      expect(tokens).toHaveLength(2)
+      const passwords = ['parallel-password-one-1', 'parallel-password-two-2']
+      const answers = await Promise.all(tokens.map((token, i) => api('/api/auth/password-reset', { body: { token, password: passwords[i] } })))
+      const statuses = answers.map(a => a.status)
+      expect(statuses.filter(s => s === 200)).toHaveLength(1)
+      const loser = answers.find(a => a.status !== 200)!
+      expect([409, 422]).toContain(loser.status)
+      const won = passwords[statuses.indexOf(200)]!
+      expect((await login(member.email, won)).status).toBe(200)
+      const [row] = await sql<{ session_version: number }>('SELECT session_version FROM users WHERE id = $1', [member.userId])
+      expect(row!.session_version).toBe(1)
+    }))
   })
 
   it('refuses an expired reset link and keeps the old password', async () => {

@@ -388,6 +388,31 @@ describe('a junior\'s guardian and their consent', () => {
     expect(await auditOf(m.memberId)).toEqual([])
   })
 
+  it('skips the consent e-mails still queued for the old guardian when a new link is asked for or the guardian changes', async () => {
+    const old = guardianAddress('queued')
+    const m = await junior({ guardianEmail: old })
+    // A consent e-mail waiting in the queue (due later, so no run sends it meanwhile), its link in the body.
+    const waiting = async (subjectKey: string) => (await sql<{ id: string }>(`
+      INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body, next_attempt_at)
+      SELECT club_id, id, 'guardian_consent', $2, $3, $4, 'Consent asked (test)', 'Open /guardian-consent?token=waiting-token-1',
+        '<a href="/guardian-consent?token=waiting-token-1">Consent</a>', now() + interval '1 hour'
+      FROM memberships WHERE id = $1 RETURNING id`, [m.memberId, subjectKey, clubDay(0), old]))[0]!.id
+    const notice = (id: string) => sql<{ status: string, last_error: string | null, text_body: string, html_body: string }>(
+      'SELECT status, last_error, text_body, html_body FROM notices WHERE id = $1', [id])
+
+    const first = await waiting('test-first')
+    expect((await post(m.memberId, 'guardian-consent', { reason: 'Asking once more' })).status).toBe(200)
+    const [skipped] = await notice(first)
+    expect(skipped).toMatchObject({ status: 'skipped', last_error: 'Replaced by a newer consent link' })
+    expect(`${skipped!.text_body}${skipped!.html_body}`).not.toContain('waiting-token-1')
+    // The fresh link itself goes out.
+    await waitForMail(old, CONSENT_SUBJECT)
+
+    const second = await waiting('test-second')
+    expect((await patch(m.memberId, { guardianEmail: guardianAddress('next') })).status).toBe(200)
+    expect((await notice(second))[0]).toMatchObject({ status: 'skipped', last_error: 'Replaced by a newer consent link' })
+  })
+
   it('re-sending needs a reason and members.manage', async () => {
     const guardian = guardianAddress('gate')
     const m = await junior({ guardianEmail: guardian })

@@ -236,6 +236,20 @@ describe('the outbox', () => {
   })
 })
 
+describe('notices with a one-time link', () => {
+  it('cannot be retried once failed: the link was removed, the member asks for a new one (422)', async () => {
+    const member = await makeMember()
+    const [row] = await sql<{ id: string }>(`INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject,
+        text_body, html_body, status, attempts)
+      VALUES ($1, $2, 'password_reset', 'test', $3, $4, 'Reset (test)', 'token=removed', 'token=removed', 'failed', 10) RETURNING id`,
+    [await demoClubId(), member.memberId, clubDay(0), member.email])
+    const res = await api(`/api/notices/${row!.id}/retry`, { method: 'POST', as: 'admin' })
+    expect(res.status).toBe(422)
+    expect(res.body.data.reasons[0].code).toBe('LINK_REMOVED')
+    expect((await sql<{ status: string }>('SELECT status FROM notices WHERE id = $1', [row!.id]))[0]!.status).toBe('failed')
+  })
+})
+
 describe('my e-mail settings', () => {
   it('lets a member switch optional e-mails off and on, never safety ones', async () => {
     const member = await makeMember()
