@@ -63,6 +63,10 @@ function listHeaders(n: ClaimedNotice): Record<string, string> | undefined {
   return { 'List-Unsubscribe': `<${url}>`, 'List-Unsubscribe-Post': 'List-Unsubscribe=One-Click' }
 }
 
+/** Settles a notice the member opted out of after it was queued (its link blanked like any other). */
+const skipOptedOut = (n: ClaimedNotice) =>
+  finish(n.id, `${SCRUB_LINKS_SQL}, status = 'skipped', last_error = 'The member opted out of this kind'`)
+
 const optedOut = (n: ClaimedNotice) => isNoticeKind(n.kind) && NOTICE_KINDS[n.kind].optional && n.opt_outs.includes(n.kind)
 
 /** Records a failed attempt on `notice`; returns the status it took. */
@@ -96,7 +100,7 @@ export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: numbe
     handled += batch.length
     for (const [index, notice] of batch.entries()) {
       if (optedOut(notice)) {
-        await finish(notice.id, `${SCRUB_LINKS_SQL}, status = 'skipped', last_error = 'The member opted out of this kind'`)
+        await skipOptedOut(notice)
         result.skipped += 1
         continue
       }
@@ -115,7 +119,7 @@ export async function runNoticeQueue(opts: { clubId?: string, maxNotices?: numbe
         // (an opted-out one is settled now: it will never be sent).
         for (const rest of batch.slice(index)) {
           if (optedOut(rest)) {
-            await finish(rest.id, `status = 'skipped', last_error = 'The member opted out of this kind'`)
+            await skipOptedOut(rest)
             result.skipped += 1
             continue
           }
