@@ -2,7 +2,8 @@
 // Used by scripts/start.mjs, scripts/test.mjs and the tests that need a database of their own.
 import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync, mkdirSync, chownSync } from 'node:fs'
-import { join } from 'node:path'
+import { dirname, join } from 'node:path'
+import { createHash } from 'node:crypto'
 import { userInfo } from 'node:os'
 
 const PG_BIN_CANDIDATES = ['/usr/lib/postgresql/15/bin', '/usr/lib/postgresql/16/bin', '/usr/lib/postgresql/17/bin']
@@ -38,11 +39,28 @@ function runPg(binDir, tool, args, opts = {}) {
 }
 
 /**
- * Initialises (once) and starts a cluster in `dir` on 127.0.0.1:`port`, and creates `database`.
- * Returns { url, stop } where stop() shuts the cluster down (fast mode).
+ * Where the cluster for `dir` lives: `dir` itself, unless we run as root and the postgres user cannot
+ * reach it (a checkout under a private home folder such as /root); then a folder of its own under
+ * /var/tmp, named after `dir`, so the server can still run as postgres.
  */
-export function startPostgres({ dir, port, database, fast = false }) {
+export function clusterDir(dir) {
+  if (!isRoot()) return dir
+  mkdirSync(dirname(dir), { recursive: true })
+  const reachable = spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dirname(dir)]).status === 0
+  if (reachable) return dir
+  const fallback = join('/var/tmp/hoopwise-pg', createHash('sha256').update(dir).digest('hex').slice(0, 16))
+  mkdirSync(dirname(fallback), { recursive: true })
+  return fallback
+}
+
+/**
+ * Initialises (once) and starts a cluster in `dir` (see clusterDir) on 127.0.0.1:`port`, and creates
+ * `database`. Returns { url, stop } where stop() shuts the cluster down (fast mode).
+ */
+export function startPostgres({ dir: projectDir, port, database, fast = false }) {
   const binDir = ensurePostgresBinaries()
+  const dir = clusterDir(projectDir)
+  if (dir !== projectDir) console.log(`• the postgres user cannot reach ${projectDir}; the cluster lives in ${dir}`)
   const dataDir = join(dir, 'data')
   const socketDir = join(dir, 'socket')
   if (!existsSync(join(dataDir, 'PG_VERSION'))) {
@@ -71,13 +89,14 @@ export function startPostgres({ dir, port, database, fast = false }) {
   if (exists !== '1') runPg(binDir, 'createdb', ['-h', '127.0.0.1', '-p', String(port), '-U', 'hoopwise', database])
   return {
     url: `postgres://hoopwise@127.0.0.1:${port}/${database}`,
-    stop: () => stopPostgres(dir),
+    stop: () => stopPostgres(projectDir),
   }
 }
 
 /** Stops the cluster in `dir` if it is running. */
-export function stopPostgres(dir) {
+export function stopPostgres(projectDir) {
   const binDir = ensurePostgresBinaries()
+  const dir = clusterDir(projectDir)
   try {
     runPg(binDir, 'pg_ctl', ['stop', '-m', 'fast', '-w', '-D', join(dir, 'data')])
   }
