@@ -8,7 +8,11 @@ import { userInfo } from 'node:os'
 import { ROOT, TEST, ensureDir } from './lib/config.mjs'
 
 const CHROMIUM = '/usr/bin/chromium'
-const only = process.argv.slice(2) // e.g. `npm test -- api` runs one stage after the set-up
+// `npm test -- api` runs one stage after the set-up; `npm test -- api tests/api/sessions.test.ts` also
+// narrows the suites to the named files.
+const args = process.argv.slice(2)
+const only = args.filter(a => !a.includes('/'))
+const files = args.filter(a => a.includes('/'))
 
 function run(label, command, args, env = {}) {
   console.log(`\n▶ ${label}`)
@@ -44,7 +48,9 @@ function vitest(label, project) {
   const report = join(RESULTS, `${project}.json`)
   rmSync(report, { force: true })
   try {
-    run(label, 'npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`])
+    const mine = files.filter(f => f.includes(`tests/${project}/`))
+    if (files.length && !mine.length) return
+    run(label, 'npx', ['vitest', 'run', '--project', project, '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...mine])
   }
   finally {
     if (existsSync(report)) {
