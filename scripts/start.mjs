@@ -1,6 +1,7 @@
 #!/usr/bin/env node
 // `npm start` (production build) and `npm run dev` (hot reload): installs what is missing, starts a
-// private PostgreSQL and the mail catcher, migrates and seeds, then serves Hoopwise. Ctrl-C stops all.
+// private PostgreSQL (unless NUXT_DATABASE_URL names a database of your own) and the mail catcher,
+// migrates, seeds the demo club on the private cluster only, then serves Hoopwise. Ctrl-C stops all.
 import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync } from 'node:fs'
 import { join } from 'node:path'
@@ -15,9 +16,11 @@ if (!existsSync(join(ROOT, 'node_modules', '.package-lock.json'))) {
 
 const { startPostgres } = await import('./lib/postgres.mjs')
 const { startMailCatcher, startProcess, waitForHttp } = await import('./lib/processes.mjs')
-const { prepareDatabase } = await import('./lib/database.mjs')
+const { setUpDatabase } = await import('./lib/setup.mjs')
 
 const fileEnv = loadDotEnv()
+// The set-up reads both: a line in .env counts as if it were in the environment.
+const setupEnv = { ...fileEnv, ...process.env }
 const publicUrl = process.env.NUXT_PUBLIC_URL ?? fileEnv.NUXT_PUBLIC_URL ?? `http://localhost:${DEV.appPort}`
 const useRealSmtp = Boolean(process.env.NUXT_SMTP_HOST ?? fileEnv.NUXT_SMTP_HOST)
 
@@ -42,9 +45,12 @@ process.on('SIGTERM', () => stopAll(0))
 
 try {
   ensureDir(join(ROOT, '.local'))
-  const pg = startPostgres({ dir: DEV.pgDir, port: DEV.pgPort, database: DEV.database })
-  stoppers.push(pg.stop)
-  console.log(`• PostgreSQL on 127.0.0.1:${DEV.pgPort}`)
+  let cluster
+  if (!setupEnv.NUXT_DATABASE_URL) {
+    cluster = startPostgres({ dir: DEV.pgDir, port: DEV.pgPort, database: DEV.database })
+    stoppers.push(cluster.stop)
+    console.log(`• PostgreSQL on 127.0.0.1:${DEV.pgPort}`)
+  }
 
   let mailNote = 'real SMTP from the environment'
   if (!useRealSmtp) {
@@ -53,12 +59,13 @@ try {
     mailNote = `mail catcher: http://127.0.0.1:${DEV.mailWebPort}`
   }
 
-  const databaseUrl = process.env.NUXT_DATABASE_URL ?? pg.url
-  await prepareDatabase({ databaseUrl, publicUrl })
+  const { databaseUrl, seeded } = await setUpDatabase({ env: setupEnv, cluster, publicUrl })
 
   const env = {
     ...fileEnv,
     NUXT_DATABASE_URL: databaseUrl,
+    // The owner's address is for migrations only: the server never gets it.
+    NUXT_DATABASE_OWNER_URL: '',
     NUXT_PUBLIC_URL: publicUrl,
     ...(useRealSmtp ? {} : { NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(DEV.smtpPort) }),
     PORT: String(DEV.appPort),
@@ -77,16 +84,20 @@ try {
   server.once('exit', code => stopAll(code ?? 0))
   await waitForHttp(`http://127.0.0.1:${DEV.appPort}/api/health`, 180_000)
 
-  console.log(`
-  Hoopwise is running at ${publicUrl.replace(/\/$/, '')}/   (${mailNote})
-
+  const demo = seeded
+    ? `
   Demo sign-ins (password: hoopwise-demo)
     member@hoopwise.example       member
     instructor@hoopwise.example   member, instructor
     safety@hoopwise.example       member, instructor, safety officer
     admin@hoopwise.example        member, admin
-
-  Ctrl-C stops the server, the mail catcher and PostgreSQL; the data is kept in .local/.
+`
+    : ''
+  const stops = `the server${useRealSmtp ? '' : ', the mail catcher'}${cluster ? ' and PostgreSQL; the data is kept in .local/' : ''}`
+  console.log(`
+  Hoopwise is running at ${publicUrl.replace(/\/$/, '')}/   (${mailNote})
+${demo}
+  Ctrl-C stops ${stops}.
 `)
 }
 catch (error) {

@@ -34,7 +34,7 @@ if (!existsSync(CHROMIUM)) {
   execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } })
 }
 
-const { startPostgres, recreateDatabase } = await import('./lib/postgres.mjs')
+const { startPostgres, recreateDatabase, APP_ROLE } = await import('./lib/postgres.mjs')
 const { startMailCatcher } = await import('./lib/processes.mjs')
 const { prepareDatabase } = await import('./lib/database.mjs')
 
@@ -77,7 +77,9 @@ try {
   stoppers.push(pg.stop)
   recreateDatabase({ port: TEST.pgPort, database: TEST.database })
   const databaseUrl = `postgres://hoopwise@127.0.0.1:${TEST.pgPort}/${TEST.database}`
-  await prepareDatabase({ databaseUrl, publicUrl: `http://127.0.0.1:${TEST.appPort}` })
+  // Migrated as the owner; the test server connects as the application role (tests/support/test-env.ts).
+  const appDatabaseUrl = `postgres://${APP_ROLE}@127.0.0.1:${TEST.pgPort}/${TEST.database}`
+  await prepareDatabase({ databaseUrl: appDatabaseUrl, ownerUrl: databaseUrl, publicUrl: `http://127.0.0.1:${TEST.appPort}` })
   const mail = await startMailCatcher({ smtpPort: TEST.smtpPort, webPort: TEST.mailWebPort, mailDir: TEST.mailDir })
   stoppers.push(() => mail.stop())
 

@@ -6,6 +6,11 @@ import { dirname, join } from 'node:path'
 import { createHash } from 'node:crypto'
 import { userInfo } from 'node:os'
 
+/** The role migrations run as: it owns the database and its tables (the cluster's first role). */
+export const OWNER_ROLE = 'hoopwise'
+/** The role the application connects as: it owns nothing (see scripts/lib/database.mjs grantAppRole). */
+export const APP_ROLE = 'hoopwise_app'
+
 const PG_BIN_CANDIDATES = ['/usr/lib/postgresql/15/bin', '/usr/lib/postgresql/16/bin', '/usr/lib/postgresql/17/bin']
 const isRoot = () => userInfo().uid === 0
 
@@ -55,7 +60,9 @@ export function clusterDir(dir) {
 
 /**
  * Initialises (once) and starts a cluster in `dir` (see clusterDir) on 127.0.0.1:`port`, and creates
- * `database`. Returns { url, stop } where stop() shuts the cluster down (fast mode).
+ * `database` and the application role. Returns { url, ownerUrl, appUrl, stop }: `url` and `ownerUrl`
+ * connect as the owner role (migrations, tests arranging data), `appUrl` as the application role;
+ * stop() shuts the cluster down (fast mode).
  */
 export function startPostgres({ dir: projectDir, port, database, fast = false }) {
   const binDir = ensurePostgresBinaries()
@@ -87,8 +94,15 @@ export function startPostgres({ dir: projectDir, port, database, fast = false })
   const exists = runPg(binDir, 'psql', ['-h', '127.0.0.1', '-p', String(port), '-U', 'hoopwise', '-d', 'postgres', '-tAc',
     `SELECT 1 FROM pg_database WHERE datname = '${database}'`]).trim()
   if (exists !== '1') runPg(binDir, 'createdb', ['-h', '127.0.0.1', '-p', String(port), '-U', 'hoopwise', database])
+  // The application role: may log in, owns nothing, creates nothing (its grants come after migrating).
+  runPg(binDir, 'psql', ['-h', '127.0.0.1', '-p', String(port), '-U', OWNER_ROLE, '-d', 'postgres', '-tAc',
+    `DO $$ BEGIN IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = '${APP_ROLE}') THEN
+       CREATE ROLE ${APP_ROLE} LOGIN NOSUPERUSER NOCREATEDB NOCREATEROLE NOINHERIT; END IF; END $$`])
+  const ownerUrl = `postgres://${OWNER_ROLE}@127.0.0.1:${port}/${database}`
   return {
-    url: `postgres://hoopwise@127.0.0.1:${port}/${database}`,
+    url: ownerUrl,
+    ownerUrl,
+    appUrl: `postgres://${APP_ROLE}@127.0.0.1:${port}/${database}`,
     stop: () => stopPostgres(projectDir),
   }
 }

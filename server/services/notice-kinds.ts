@@ -71,6 +71,16 @@ export const NOTICE_KINDS = {
       `If you agree to their membership, confirm with the link below (it works once and expires in ${tokenLifetimeWords('guardian_consent')}).`,
     ], { label: 'I give my consent', url: v.actionUrl }),
   },
+  // The first admin's account, made by `npm run admin:create -- --send-link`: a reset link by another name.
+  set_password: {
+    optional: false,
+    label: 'Set password',
+    render: v => notice(`Choose your ${v.clubName} password`, [
+      `Hello ${v.memberName},`,
+      `An administrator account for ${v.clubName} was created for you on Hoopwise. Choose your password with the link below; it works once and expires in ${tokenLifetimeWords('reset_password')}.`,
+      'If it has expired, use "Forgot your password?" on the sign-in page to get a new one.',
+    ], { label: 'Choose my password', url: v.actionUrl }),
+  },
   signup_approved: {
     optional: false,
     label: 'Sign-up approved',

@@ -1,8 +1,12 @@
 // The services scripts/test.mjs starts for the API and browser suites, read from its environment.
 import { TEST } from '../../scripts/lib/config.mjs'
+import { APP_ROLE } from '../../scripts/lib/postgres.mjs'
 
 export const testEnv = {
+  /** The owner role: tests arrange data, add constraints and read what the API cannot show through it. */
   databaseUrl: process.env.HOOPWISE_TEST_DATABASE_URL ?? `postgres://hoopwise@127.0.0.1:${TEST.pgPort}/${TEST.database}`,
+  /** The application role the test server connects as (read and append only on the audit trail). */
+  appDatabaseUrl: process.env.HOOPWISE_TEST_APP_DATABASE_URL ?? `postgres://${APP_ROLE}@127.0.0.1:${TEST.pgPort}/${TEST.database}`,
   pgPort: TEST.pgPort,
   smtpPort: TEST.smtpPort,
   mailUrl: `http://127.0.0.1:${TEST.mailWebPort}`,
@@ -16,7 +20,7 @@ export function serverEnv(overrides: Record<string, string> = {}): Record<string
   return {
     NODE_ENV: 'production',
     NUXT_SESSION_PASSWORD: testEnv.sessionPassword,
-    NUXT_DATABASE_URL: testEnv.databaseUrl,
+    NUXT_DATABASE_URL: testEnv.appDatabaseUrl,
     NUXT_PUBLIC_URL: testEnv.baseUrl,
     NUXT_SMTP_HOST: '127.0.0.1',
     NUXT_SMTP_PORT: String(testEnv.smtpPort),
