@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { demoWanted, databaseUrls } from '../../scripts/lib/setup.mjs'
+import { tagPrefixFor } from '../../server/database/first-admin'
 
 describe('demoWanted: the demo club only on the private cluster or on request, never in production', () => {
   it.each([
@@ -32,5 +33,19 @@ describe('databaseUrls: which role migrates and which the app uses', () => {
 
   it('refuses an owner address without the app\'s', () => {
     expect(() => databaseUrls({ env: { NUXT_DATABASE_OWNER_URL: 'postgres://o@x/y' }, cluster })).toThrow(/NUXT_DATABASE_URL/)
+  })
+})
+
+describe('tagPrefixFor: a new club\'s tag prefix from its name (2–5 capital letters, as clubs.tag_prefix checks)', () => {
+  it.each([
+    ['Estuary Rocketry Club', 'ERC'],
+    ['saltmarsh rocketry guild', 'SRG'],
+    ['Rocketeers', 'ROCKE'],
+    ['Île-de-Loire Water Rocket Society of Amateurs', 'IWRSO'],
+    ['Q', 'QX'],
+    ['42', 'XX'],
+  ])('%s → %s', (name, prefix) => {
+    expect(tagPrefixFor(name)).toBe(prefix)
+    expect(prefix).toMatch(/^[A-Z]{2,5}$/)
   })
 })
