@@ -29,6 +29,9 @@ export default defineNuxtConfig({
     // Sign-ups and password-reset requests allowed per address in an hour.
     signupMaxPerAddress: 10,
     resetRequestMaxPerAddress: 10,
+    // Sessions end this many days after sign-in (absolute) or after the last request (idle).
+    sessionMaxAgeDays: 30,
+    sessionIdleDays: 7,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

@@ -7,8 +7,6 @@ export class User extends Model {
   declare name: string
   declare passwordHash: string
   declare emailVerifiedAt: Date | null
-  /** Raised by a password reset; sessions issued at a lower version are refused. */
-  declare sessionVersion: number
   declare createdAt: Date
   declare updatedAt: Date
 
@@ -19,7 +17,6 @@ export class User extends Model {
       name: { type: DataTypes.TEXT, allowNull: false },
       passwordHash: { type: DataTypes.TEXT, allowNull: false },
       emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
-      sessionVersion: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     }, { sequelize, modelName: 'user', tableName: 'users', underscored: true })
   }
 }

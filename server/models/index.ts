@@ -8,8 +8,9 @@ import { WaiverAcceptance } from './WaiverAcceptance'
 import { ActionToken } from './ActionToken'
 import { Notice } from './Notice'
 import { AuditEvent } from './AuditEvent'
+import { Session } from './Session'
 
-export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent }
+export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session }
 
 /**
  * Creates a Sequelize instance for `databaseUrl` with every model initialised and associated.
@@ -24,7 +25,7 @@ export function createSequelize(databaseUrl: string): Sequelize {
     dialectOptions: { connectionTimeoutMillis: 3000 },
     pool: { max: 10, min: 0, acquire: 5000, idle: 10_000, evict: 5000 },
   })
-  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent]) {
+  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session]) {
     model.initModel(sequelize)
   }
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })

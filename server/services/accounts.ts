@@ -1,5 +1,5 @@
 import type { H3Event } from 'h3'
-import { Op, UniqueConstraintError, col, fn, literal, where, type Transaction } from 'sequelize'
+import { Op, UniqueConstraintError, col, fn, where, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../models'
 import type { Actor } from '../utils/auth'
 import { isJunior } from '../../shared/utils/membership-status'
@@ -9,7 +9,7 @@ import { recordAudit } from './audit'
 import { clubBaseUrl, clubToday, homeClub } from './clubs'
 import { enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
-import { sessionFor, type SessionStart } from './sessions'
+import { revokeSessions, sessionFor, type SessionStart } from './sessions'
 import { consumeToken, issueToken, peekToken, recentTokenCount, revokeTokens } from './tokens'
 
 /** The message for a sign-up with an e-mail already in use: says no more than that. */
@@ -220,13 +220,13 @@ export function requestPasswordResetAfterReply(event: H3Event, email: string): v
 
 /**
  * Sets a new password from an e-mailed reset link: uses the link once, stops every other reset
- * link of the account, confirms the e-mail (the link proved it), ends every session begun before
- * (the session version goes up), clears the sign-in failures and records the change in the audit
- * trail — all in one transaction, which first locks the account's row: two reset links of one
- * account used at once queue up (the second finds its link revoked, 422) instead of deadlocking.
- * 422 when the link cannot be used; 409 if the database still reports a conflict.
+ * link of the account, confirms the e-mail (the link proved it), ends every session of the account
+ * (revoked in `sessions`; `address` goes into the log line), clears the sign-in failures and records
+ * the change in the audit trail — all in one transaction, which first locks the account's row: two
+ * reset links of one account used at once queue up (the second finds its link revoked, 422) instead
+ * of deadlocking. 422 when the link cannot be used; 409 if the database still reports a conflict.
  */
-export async function resetPassword(token: string, password: string): Promise<void> {
+export async function resetPassword(token: string, password: string, address: string | null = null): Promise<void> {
   // Look at the link before the slow hash (a dead link costs no scrypt), and hash before the
   // transaction (no transaction waits on it); the conditional consume below still settles races.
   const peeked = await peekToken(token, 'reset_password')
@@ -240,8 +240,8 @@ export async function resetPassword(token: string, password: string): Promise<vo
     await User.update({
       passwordHash,
       emailVerifiedAt: user.emailVerifiedAt ?? new Date(),
-      sessionVersion: literal('session_version + 1'),
     }, { where: { id: user.id }, transaction })
+    await revokeSessions({ userId: user.id }, 'password_reset', address, transaction)
     const revoked = await revokeTokens(user.id, 'reset_password', transaction)
     if (membership?.club) {
       await recordAudit(selfActor(user, membership, membership.club), membership.clubId, {

@@ -14,11 +14,12 @@ import { kickNoticeQueue } from './notice-queue'
 import { loadMemberDto } from './members'
 import { queueGuardianConsent } from './accounts'
 import { revokeTokens } from './tokens'
+import { revokeSessions } from './sessions'
 
 // THE LOCK ORDER for every write that touches a member: first the membership row(s) (FOR UPDATE,
-// in id order when there are two), then the account's `users` row, then that member's action_tokens
-// and notices. Member actions here, the member's own profile edit (services/standing.ts), password
-// resets, link requests and guardian consent (services/accounts.ts) all keep to it, so two of them
+// in id order when there are two), then the account's `users` row, then that member's action_tokens,
+// notices and sessions. Member actions here, the member's own profile edit (services/standing.ts),
+// password resets, link requests and guardian consent (services/accounts.ts) all keep to it, so two of them
 // for one member wait for each other instead of deadlocking; mapDbError answers 409 should the
 // database still report a deadlock.
 
@@ -155,6 +156,10 @@ export async function changeMembership(actor: Actor, id: string, action: Members
       reason,
     }, transaction)
     if (action === 'approve') await queueApproval(actor, m, transaction)
+    // A suspended or resigned member signs in again to see their standing, with no capability.
+    if (action === 'suspend' || action === 'resign') {
+      await revokeSessions({ membershipId: m.id }, action === 'suspend' ? 'suspended' : 'resigned', actor.address ?? null, transaction)
+    }
   })
   if (action === 'approve') kickNoticeQueue()
   return reload(actor, id)

@@ -1,5 +1,6 @@
 import type { H3Event } from 'h3'
-import { Club, Membership, User } from '../models'
+import type { Club, Membership, User } from '../models'
+import { loadLiveSession } from '../services/sessions'
 import { rolesCan, normaliseRoles, type Capability, type Role } from '../../shared/utils/permissions'
 import { membershipStatus, statusKeepsRights, type MembershipStatus } from '../../shared/utils/membership-status'
 
@@ -9,30 +10,36 @@ export interface Actor {
   club: Club
   roles: Role[]
   status: MembershipStatus
+  /** The session this request came with (absent for an actor made up outside a request). */
+  sessionId?: string
+  /** The request's address (absent likewise), for the log lines of what the actor ends. */
+  address?: string
+}
+
+/** 401 and the cookie cleared: the session has ended, or the member behind it is gone. */
+export async function endedSession(event: H3Event): Promise<never> {
+  await clearUserSession(event)
+  throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Please sign in again' })
 }
 
 /**
- * The signed-in member, read fresh from the database on every request: roles and status come from
- * the membership row, never from the cookie alone, so a removed role or a suspension bites at once.
- * 401 (and the cookie cleared) when not signed in, when the membership is gone, or when the
- * session began before the account's password was last reset.
+ * The signed-in member, read fresh from the database on every request through the session's row:
+ * one query checks that the session has not ended (signed out, revoked, past its lifetime or idle
+ * timeout) and loads the membership, account and club, so a removed role or a suspension bites at
+ * once. Nothing in the cookie but the session id is trusted. 401 when not signed in; 401 and the
+ * cookie cleared when the session has ended.
  */
 export async function requireMember(event: H3Event): Promise<Actor> {
   if (event.context.actor) return event.context.actor as Actor
   const session = await requireUserSession(event)
-  useDb()
-  const membership = await Membership.findOne({
-    where: { id: session.user.memberId, userId: session.user.id },
-    include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],
-  })
-  // A session older than the account's last password reset is revoked (a cookie without a version counts as 0).
-  const revoked = (session.secure?.sessionVersion ?? 0) < (membership?.user?.sessionVersion ?? 0)
-  if (!membership?.user || !membership.club || revoked) {
-    await clearUserSession(event)
-    throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'Please sign in again' })
+  const live = await loadLiveSession(session.secure?.sessionId)
+  if (!live) return endedSession(event)
+  const { user, membership, club } = live
+  const status = membershipStatus(membership, { timeZone: club.timeZone, graceDays: club.graceDays })
+  const actor: Actor = {
+    user, membership, club, roles: normaliseRoles(membership.roles), status,
+    sessionId: live.sessionId, address: requestAddress(event),
   }
-  const status = membershipStatus(membership, { timeZone: membership.club.timeZone, graceDays: membership.club.graceDays })
-  const actor: Actor = { user: membership.user, membership, club: membership.club, roles: normaliseRoles(membership.roles), status }
   event.context.actor = actor
   return actor
 }

@@ -69,3 +69,7 @@ export const NewPasswordFormSchema = z.object({
   confirm: z.string().max(200, 'At most 200 characters'),
 }).refine(v => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ' })
 export type NewPasswordForm = z.infer<typeof NewPasswordFormSchema>
+
+/** "Sign out everywhere else": the caller confirms it, so an empty or stray request ends nothing. */
+export const SignOutOthersSchema = z.object({ confirm: z.literal(true, { errorMap: () => ({ message: 'Confirm to sign out your other sessions' }) }) })
+export type SignOutOthers = z.infer<typeof SignOutOthersSchema>

@@ -28,3 +28,21 @@ export interface GuardianConsentDto {
   /** When the guardian consented (ISO instant), or null while consent is still awaited. */
   consentedAt: string | null
 }
+
+/** One of my sessions that has not ended, for the profile's list (newest use first). */
+export interface SessionDto {
+  id: string
+  /** The browser and system in words, from the user agent ("Firefox on Windows"). */
+  device: string
+  /** The address the session began from. */
+  address: string
+  createdAt: string
+  lastSeenAt: string
+  /** True for the session this request came with. */
+  current: boolean
+}
+
+/** Answer to "sign out everywhere else". */
+export interface SessionsEndedDto {
+  ended: number
+}

@@ -4,9 +4,9 @@ import type { SessionUser } from './session'
 declare module '#auth-utils' {
   // eslint-disable-next-line @typescript-eslint/no-empty-object-type
   interface User extends SessionUser {}
-  // Server-only part of the sealed cookie: the account's session version when the session began.
+  // Server-only part of the sealed cookie: the id of the session's row in `sessions`.
   interface SecureSessionData {
-    sessionVersion?: number
+    sessionId?: string
   }
 }
 

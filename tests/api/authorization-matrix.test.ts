@@ -1,7 +1,9 @@
-import { describe, it, expect, beforeAll } from 'vitest'
+import { describe, it, expect, beforeAll, inject } from 'vitest'
 import { api } from '../support/http'
 import { makeMember } from '../support/factories'
 import { discoverRoutes, concretePath } from '../support/routes'
+import { signIn } from '../support/global-setup'
+import { DEMO } from '../support/test-env'
 
 /**
  * Every route file under server/api × {anonymous, member, instructor, safety officer, admin} → the
@@ -60,6 +62,9 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
   'GET /api/audit': only(200, 'safety', 'admin'),
+  'GET /api/me/sessions': signedIn(200),
+  'DELETE /api/me/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session of mine
+  'POST /api/me/sessions/sign-out-others': signedIn(400), // not confirmed: nothing is signed out
 }
 
 let subjectId = ''
@@ -84,7 +89,9 @@ describe('authorization matrix', () => {
     if (!row) return expect.fail(`no row for ${route}`)
     const [method, pattern] = route.split(' ') as [string, string]
     const path = concretePath(pattern, subjectId)
-    const res = await api(path, { method, as: who === 'anon' ? undefined : who, body: method === 'GET' ? undefined : {} })
+    // Signing out ends the session it is sent with, so it gets a session of its own, never the shared one.
+    const as = who === 'anon' ? undefined : route === 'POST /api/auth/logout' ? await signIn(inject('baseUrl'), DEMO[who], DEMO.password) : who
+    const res = await api(path, { method, as, body: method === 'GET' ? undefined : {} })
     expect(res.status, `${route} as ${who}: ${JSON.stringify(res.body)?.slice(0, 200)}`).toBe(row[who])
     expect(res.status).not.toBe(500)
   })

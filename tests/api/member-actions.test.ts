@@ -53,12 +53,15 @@ describe('approving a sign-up', () => {
 describe('suspending and reinstating', () => {
   it('a suspension bites on the member\'s next request, and reinstating gives the rights back', async () => {
     const instructor = await makeMember({ roles: ['instructor'] })
-    const cookie = await signIn(inject('baseUrl'), instructor.email, instructor.password)
-    expect((await api('/api/members', { as: cookie })).status).toBe(200)
+    const before = await signIn(inject('baseUrl'), instructor.email, instructor.password)
+    expect((await api('/api/members', { as: before })).status).toBe(200)
 
     const res = await post(instructor.memberId, 'suspend', { reason: 'Filled without a supervisor' })
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ status: 'suspended', suspendedReason: 'Filled without a supervisor' })
+    // The suspension ended the session; signed in again, the member holds no capability.
+    expect((await api('/api/members', { as: before })).status).toBe(401)
+    const cookie = await signIn(inject('baseUrl'), instructor.email, instructor.password)
     expect((await api('/api/members', { as: cookie })).status).toBe(403)
 
     const twice = await post(instructor.memberId, 'suspend')
