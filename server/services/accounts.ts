@@ -50,7 +50,7 @@ export async function signIn(email: string, password: string, address: string, k
   const ok = user ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await dummyHash, password), false)
   const session = ok && user ? await sessionFor(user) : null
   if (!session) {
-    loginFailed(attempt)
+    await loginFailed(attempt)
     throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'E-mail or password is wrong' })
   }
   await loginSucceeded(attempt)

@@ -20,12 +20,13 @@ export function emailKey(email: string): string {
   return createHash('sha256').update(email.trim().toLowerCase()).digest('base64url')
 }
 
-/** "3 seconds", "1 minute", "15 minutes": how long until the next try, rounded up. */
+/** "1 second", "15 minutes", "24 hours": how long until the next try, rounded up. */
 export function waitWords(ms: number): string {
   const seconds = Math.max(1, Math.ceil(ms / 1000))
   if (seconds < 120) return `${seconds} second${seconds === 1 ? '' : 's'}`
   const minutes = Math.ceil(seconds / 60)
-  return `${minutes} minutes`
+  if (minutes < 120) return `${minutes} minutes`
+  return `${Math.ceil(minutes / 60)} hours`
 }
 
 export type SignInOutcome = 'failed' | 'limited'

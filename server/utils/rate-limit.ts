@@ -140,6 +140,8 @@ export interface LoginAttempt {
   account: string
   address: string
   knownDevice: boolean
+  /** The account's wait this attempt opened (0 when none): it runs from the failure, if the password is wrong. */
+  waitS: number
 }
 
 const LOGIN_BLOCKED = 'Too many failed sign-in attempts.'
@@ -163,7 +165,7 @@ function refuseLogin(attempt: LoginAttempt, limit: SignInLimit, retryMs: number)
  * A refused attempt gives back the points it took. Pair with `loginFailed` or `loginSucceeded`.
  */
 export async function claimLoginAttempt(email: string, address: string, knownDevice = false): Promise<LoginAttempt> {
-  const attempt: LoginAttempt = { account: email.toLowerCase(), address, knownDevice }
+  const attempt: LoginAttempt = { account: email.toLowerCase(), address, knownDevice, waitS: 0 }
   const l = useLimiters()
   const config = useRuntimeConfig()
   const byAddress = addressGroup(address)
@@ -182,19 +184,25 @@ export async function claimLoginAttempt(email: string, address: string, knownDev
   const failures = await l.accountFailures.consume(account, 1)
   const waitS = backoffSeconds(failures.consumedPoints, Number(config.loginMaxPerAccount), Number(config.loginBackoffBaseSeconds), Number(config.loginBackoffMaxSeconds))
   if (waitS > 0) {
-    // The wait gate holds one attempt; the attempt that opens it sets how long it stays shut.
+    // The wait gate lets one attempt through at a time (parallel ones are refused); if its password
+    // is wrong, loginFailed shuts the gate for the wait.
     const shut = await take(l.accountWait, account, waitS)
     if (shut) {
       await Promise.all([l.address.reward(byAddress, 1), l.accountAddress.reward(accountAddress, 1), l.accountFailures.reward(account, 1)])
       refuseLogin(attempt, 'account', shut.msBeforeNext)
     }
+    attempt.waitS = waitS
   }
   return attempt
 }
 
-/** Logs a wrong password (or unknown e-mail): the points `claimLoginAttempt` took stay spent. */
-export function loginFailed(attempt: LoginAttempt): void {
+/**
+ * After a wrong password (or an unknown e-mail): the points `claimLoginAttempt` took stay spent, the
+ * account's wait (when this attempt opened one) runs from now, and the failure is logged.
+ */
+export async function loginFailed(attempt: LoginAttempt): Promise<void> {
   logSignIn('failed', attempt.account, attempt.address)
+  if (attempt.waitS > 0) await useLimiters().accountWait.block(emailKey(attempt.account), attempt.waitS)
 }
 
 /**
