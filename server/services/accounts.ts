@@ -73,7 +73,7 @@ function selfActor(user: User, membership: Membership, club: Club): Actor {
 
 /** Issues a verification link and queues it to the account's e-mail; 429 past the address's e-mails for the day. */
 async function queueVerification(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
-  await countRecipientMail(user.email)
+  await countRecipientMail(user.email, transaction)
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'verify_email' }, transaction)
   await enqueueNotice({
     clubId: club.id,
@@ -91,7 +91,7 @@ async function queueVerification(club: Club, user: User, membership: Membership,
  * `transaction`; 429 when the guardian's address has had its e-mails for the day (countRecipientMail).
  */
 export async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
-  await countRecipientMail(membership.guardianEmail!)
+  await countRecipientMail(membership.guardianEmail!, transaction)
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
   await enqueueNotice({
     clubId: club.id,

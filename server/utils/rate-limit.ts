@@ -1,4 +1,5 @@
 import type { H3Event } from 'h3'
+import type { Transaction } from 'sequelize'
 import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible'
 import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice } from '../services/known-device'
 import { backoffSeconds, emailKey, logSignIn, waitWords, type SignInLimit } from '../services/sign-in-limits'
@@ -243,10 +244,29 @@ export async function countResetRequest(address: string): Promise<void> {
 /**
  * Counts one verification or guardian-consent e-mail to `email` (whatever its case); 429 past
  * `mailMaxPerRecipientPerDay` in a day, so the sign-up and re-send forms cannot be turned into a
- * way to mail strangers. Counted before the mail is queued (a sign-up that fails after it still
- * spent its count: the limit errs on the recipient's side).
+ * way to mail strangers. Counted before the mail is queued, inside the caller's `transaction` when
+ * it has one.
  */
-export async function countRecipientMail(email: string): Promise<void> {
-  const full = await take(useLimiters().recipientMail, emailKey(email))
+export async function countRecipientMail(email: string, transaction?: Transaction): Promise<void> {
+  const full = await take(transaction ? recipientMailIn(transaction) : useLimiters().recipientMail, emailKey(email))
   if (full) tooMany(`Enough e-mails went to ${email} today.`, full.msBeforeNext)
+}
+
+/**
+ * The per-recipient limiter on `transaction`'s own connection: taking a second connection from the
+ * pool while a transaction holds one could starve the pool under a burst, and this way a sign-up
+ * that rolls back gives its count back.
+ */
+function recipientMailIn(transaction: Transaction): RateLimiterPostgres {
+  const { connection } = transaction as unknown as { connection: unknown }
+  return new RateLimiterPostgres({
+    storeClient: connection,
+    storeType: 'client',
+    tableName: TABLE,
+    tableCreated: true,
+    clearExpiredByTimeout: false,
+    keyPrefix: 'mail-recipient',
+    points: Number(useRuntimeConfig().mailMaxPerRecipientPerDay),
+    duration: DAY_SECONDS,
+  })
 }
