@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest'
-import { addressGroup, clientAddressFrom, parseTrustedProxies } from '../../server/utils/client-address'
+import { addressGroup, clientAddressFrom, parseTrustedProxies, type TrustedRange } from '../../server/utils/client-address'
 import { backoffSeconds, emailKey, signInLogLine, waitWords } from '../../server/services/sign-in-limits'
 import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice, KNOWN_DEVICE_MAX_ENTRIES } from '../../server/services/known-device'
 
@@ -42,7 +42,7 @@ describe('parseTrustedProxies (NUXT_TRUSTED_PROXIES)', () => {
 
 describe('clientAddressFrom (who is asking)', () => {
   const proxies = parseTrustedProxies('10.0.0.0/8,2001:db8:ffff::/48')
-  it.each([
+  it.each<[string | undefined, string | undefined, TrustedRange[], string, string]>([
     ['203.0.113.9', '198.51.100.1', [], '203.0.113.9', 'no proxy configured: the header is ignored'],
     ['203.0.113.9', '198.51.100.1', proxies, '203.0.113.9', 'an untrusted socket: a forged header is ignored'],
     ['10.1.2.3', '198.51.100.1', proxies, '198.51.100.1', 'a trusted proxy: the address it appended'],
@@ -57,8 +57,8 @@ describe('clientAddressFrom (who is asking)', () => {
     ['10.1.2.3', '', proxies, '10.1.2.3', 'a proxy without the header'],
     ['::ffff:127.0.0.2', undefined, [], '127.0.0.2', 'a mapped socket address comes back as IPv4'],
     [undefined, '198.51.100.1', proxies, 'unknown', 'no socket address'],
-  ] as const)('socket %s, X-Forwarded-For %s → %s (%s)', (socket, header, trusted, expected) => {
-    expect(clientAddressFrom(socket, header, [...trusted])).toBe(expected)
+  ])('socket %s, X-Forwarded-For %s → %s (%s)', (socket, header, trusted, expected) => {
+    expect(clientAddressFrom(socket, header, trusted)).toBe(expected)
   })
 })
 
