@@ -32,6 +32,17 @@ export default defineNuxtConfig({
     // Sessions end this many days after sign-in (absolute) or after the last request (idle).
     sessionMaxAgeDays: 30,
     sessionIdleDays: 7,
+    // Sign-in failures one address may make against one account in a window (a hard stop).
+    loginMaxPerAccountAddress: 5,
+    // After loginMaxPerAccount failures in a row, each try waits this long, doubling up to the maximum.
+    loginBackoffBaseSeconds: 30,
+    loginBackoffMaxSeconds: 900,
+    // How long a browser that signed in stays known to the account (skips the account's wait).
+    knownDeviceDays: 180,
+    // Reverse proxies (addresses or CIDR ranges, comma-separated) whose X-Forwarded-For is believed.
+    trustedProxies: '',
+    // Verification and guardian-consent e-mails one address may receive in a day.
+    mailMaxPerRecipientPerDay: 5,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

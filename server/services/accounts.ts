@@ -37,19 +37,23 @@ let dummyHash: Promise<string> | undefined
 
 /**
  * Checks an e-mail and password from `address` and returns the session to start. The attempt is
- * spent against the account and the address BEFORE the slow hash check, so a burst of parallel
- * guesses cannot outrun the limit (429), and given back when the password is right. 401 for any
- * mismatch, the same whether or not the e-mail has an account.
+ * spent against the limits BEFORE the slow hash check, so a burst of parallel guesses cannot outrun
+ * them (429), and given back when the password is right; `knownDevice` (this browser signed in to
+ * the account before) skips the account's own wait. 401 for any mismatch, the same whether or not
+ * the e-mail has an account.
  */
-export async function signIn(email: string, password: string, address: string): Promise<SessionStart> {
+export async function signIn(email: string, password: string, address: string, knownDevice = false): Promise<SessionStart> {
   const account = email.toLowerCase()
-  await claimLoginAttempt(account, address)
+  const attempt = await claimLoginAttempt(account, address, knownDevice)
   const user = await findUserByEmail(account)
   dummyHash ??= hashPassword('not-a-real-password-0000')
   const ok = user ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await dummyHash, password), false)
   const session = ok && user ? await sessionFor(user) : null
-  if (!session) throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'E-mail or password is wrong' })
-  await loginSucceeded(account, address)
+  if (!session) {
+    await loginFailed(attempt)
+    throw createError({ statusCode: 401, statusMessage: 'Unauthorized', message: 'E-mail or password is wrong' })
+  }
+  await loginSucceeded(attempt)
   return session
 }
 
@@ -67,7 +71,9 @@ function selfActor(user: User, membership: Membership, club: Club): Actor {
   return { user, membership, club, roles: ['member'], status: 'pending' }
 }
 
+/** Issues a verification link and queues it to the account's e-mail; 429 past the address's e-mails for the day. */
 async function queueVerification(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+  await countRecipientMail(user.email, transaction)
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'verify_email' }, transaction)
   await enqueueNotice({
     clubId: club.id,
@@ -80,8 +86,12 @@ async function queueVerification(club: Club, user: User, membership: Membership,
   }, transaction)
 }
 
-/** Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside `transaction`. */
+/**
+ * Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside
+ * `transaction`; 429 when the guardian's address has had its e-mails for the day (countRecipientMail).
+ */
 export async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
+  await countRecipientMail(membership.guardianEmail!, transaction)
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
   await enqueueNotice({
     clubId: club.id,

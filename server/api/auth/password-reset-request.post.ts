@@ -15,7 +15,7 @@ const RESET_REQUESTED: MessageDto = {
  */
 export default defineEventHandler(async (event): Promise<MessageDto> => {
   const { email } = await validBody(event, ResetRequestSchema)
-  await countResetRequest(requestAddress(event))
+  await withRetryAfter(event, () => countResetRequest(requestAddress(event)))
   requestPasswordResetAfterReply(event, email)
   return RESET_REQUESTED
 })

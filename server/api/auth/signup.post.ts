@@ -7,13 +7,17 @@ import { startSession } from '../../services/sessions'
 /**
  * Join the club: creates the account and a pending membership, e-mails a verification link (and a
  * junior's guardian a consent link), and signs the new member in. 201; 400 bad input (a junior
- * without guardian); 409 when the e-mail is taken; 429 past the sign-ups an address may make in an hour.
+ * without guardian); 409 when the e-mail is taken; 429 (with Retry-After) past the sign-ups an
+ * address may make in an hour, or past the e-mails the member's or the guardian's address may
+ * receive in a day.
  */
 export default defineEventHandler(async (event): Promise<SignupResultDto> => {
   const club = await homeClub()
   const input = await validBody(event, signupSchemaFor(clubToday(club)))
-  await countSignup(requestAddress(event))
-  const outcome = await signUp(input, club)
+  const outcome = await withRetryAfter(event, async () => {
+    await countSignup(requestAddress(event))
+    return signUp(input, club)
+  })
   await startSession(event, outcome.session)
   setResponseStatus(event, 201)
   return {

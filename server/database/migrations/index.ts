@@ -3,10 +3,12 @@ import * as m0001 from './0001-foundation'
 import * as m0004 from './0004-member-directory'
 import * as m0005 from './0005-session-version'
 import * as m0007 from './0007-sessions'
+import * as m0008 from './0008-rate-limits'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
   { name: '0004-member-directory', ...m0004 },
   { name: '0005-session-version', ...m0005 },
   { name: '0007-sessions', ...m0007 },
+  { name: '0008-rate-limits', ...m0008 },
 ]
