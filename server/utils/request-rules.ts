@@ -1,4 +1,5 @@
 import type { IncomingMessage } from 'node:http'
+import { Transform, type Readable } from 'node:stream'
 
 /** What one route accepts before its handler runs: body size, body media types, requests from other sites. */
 export interface RequestRule {
@@ -10,8 +11,8 @@ export interface RequestRule {
   crossSite: boolean
   /**
    * The handler reads the request stream itself (an upload streamed to disk with busboy's limits, a
-   * webhook that checks a signature over its raw body), so the guard only checks Content-Length and
-   * does not read ahead. Every other body is read by the guard, bounded, before any handler runs.
+   * webhook that checks a signature over its raw body) through `boundedStream`, so the guard only
+   * checks Content-Length and does not read ahead. Every other body is read by the guard, bounded, before any handler runs.
    */
   streamed: boolean
 }
@@ -130,6 +131,24 @@ export function readBoundedBody(req: IncomingMessage, maxBytes: number): Promise
     }
     req.on('data', onData).on('end', onEnd).on('error', onError)
   })
+}
+
+/**
+ * For a `streamed` route (an upload to disk): the request body as a stream that counts bytes and fails
+ * with `TooLargeError` past `maxBytes`, leaving the rest of the request unread. Pipe it to busboy or a file.
+ */
+export function boundedStream(req: IncomingMessage, maxBytes: number): Readable {
+  let size = 0
+  const counter = new Transform({
+    transform(chunk: Buffer, _encoding, callback) {
+      size += chunk.length
+      if (size <= maxBytes) return callback(null, chunk)
+      req.unpipe(counter)
+      req.pause()
+      callback(new TooLargeError(maxBytes))
+    },
+  })
+  return req.pipe(counter)
 }
 
 /** A body over its route's limit. */

@@ -2,7 +2,7 @@ import { PassThrough } from 'node:stream'
 import type { IncomingMessage } from 'node:http'
 import { describe, it, expect } from 'vitest'
 import {
-  requestRuleFor, mediaTypeOf, announcesBody, comesFromAnotherSite, readBoundedBody, TooLargeError,
+  requestRuleFor, mediaTypeOf, announcesBody, comesFromAnotherSite, readBoundedBody, boundedStream, TooLargeError,
   DEFAULT_REQUEST_RULE, DEFAULT_MAX_BODY_BYTES,
 } from '../../server/utils/request-rules'
 
@@ -93,5 +93,26 @@ describe('readBoundedBody', () => {
     expect(written).toBe(1536)
     expect(req.isPaused()).toBe(true)
     expect(req.listenerCount('data')).toBe(0)
+  })
+})
+
+describe('boundedStream (for routes that stream uploads to disk)', () => {
+  it('passes a body within the limit through unchanged', async () => {
+    const req = new PassThrough() as unknown as IncomingMessage & PassThrough
+    const out = boundedStream(req, 10)
+    req.end('0123456789')
+    const chunks: Buffer[] = []
+    for await (const chunk of out) chunks.push(chunk as Buffer)
+    expect(Buffer.concat(chunks).toString()).toBe('0123456789')
+  })
+
+  it('fails past the limit and stops reading the request', async () => {
+    const req = new PassThrough() as unknown as IncomingMessage & PassThrough
+    const out = boundedStream(req, 1024)
+    const failed = new Promise(resolve => out.on('error', resolve))
+    out.resume()
+    for (let i = 0; i < 3; i++) req.write(Buffer.alloc(512))
+    expect(await failed).toBeInstanceOf(TooLargeError)
+    expect(req.isPaused()).toBe(true)
   })
 })
