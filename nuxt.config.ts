@@ -1,6 +1,10 @@
 // Nuxt configuration: root layout (no app/ folder), Tailwind, Pinia, sealed-cookie sessions.
+
+/** A quoted keyword of a content security policy: q('self') → "'self'". */
+const q = (keyword: string) => `'${keyword}'`
+
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', 'nuxt-security'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -43,6 +47,9 @@ export default defineNuxtConfig({
     trustedProxies: '',
     // Verification and guardian-consent e-mails one address may receive in a day.
     mailMaxPerRecipientPerDay: 5,
+    // The site's public address (NUXT_PUBLIC_URL): its origin is "this site" for requests that change
+    // something, and an https address turns on HSTS.
+    publicUrl: '',
   },
   compatibilityDate: '2025-07-15',
   nitro: {
@@ -51,4 +58,46 @@ export default defineNuxtConfig({
   },
   typescript: { strict: true },
   eslint: { config: { stylistic: { semi: false, quotes: 'single', commaDangle: 'always-multiline' } } },
+  // Headers only: the project's own guard (server/middleware/0.request-guard.ts) bounds bodies, checks
+  // media types and other sites' requests; sign-in has its own limits. nuxt-security's rate limiter,
+  // size limiter and XSS validator would buffer bodies, throttle the load tests and refuse "> 10 bar".
+  security: {
+    rateLimiter: false,
+    requestSizeLimiter: false,
+    xssValidator: false,
+    corsHandler: false,
+    allowedMethodsRestricter: false,
+    removeLoggers: false,
+    nonce: true,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': [q('self')],
+        'base-uri': [q('none')],
+        'connect-src': [q('self')],
+        'font-src': [q('self')],
+        'form-action': [q('self')],
+        'frame-ancestors': [q('none')],
+        'img-src': [q('self'), 'data:'],
+        'object-src': [q('none')],
+        'script-src': [q('self'), q('strict-dynamic'), q('nonce-{{nonce}}')],
+        'script-src-attr': [q('none')],
+        // Vue's style bindings and transitions write inline styles; scripts are what the policy guards.
+        'style-src': [q('self'), q('unsafe-inline')],
+        'upgrade-insecure-requests': false,
+      },
+      // Same-origin requests keep their Origin header (no-referrer would send "null" on every POST).
+      referrerPolicy: 'same-origin',
+      xFrameOptions: 'DENY',
+      // HSTS is sent by the request guard, only when NUXT_PUBLIC_URL is https (known at run time).
+      strictTransportSecurity: false,
+      permissionsPolicy: {
+        // The fill station scans QR codes with this site's camera; no other site's frame may use it.
+        'camera': ['self'],
+        'display-capture': [],
+        'fullscreen': [],
+        'geolocation': [],
+        'microphone': [],
+      },
+    },
+  },
 })

@@ -50,7 +50,8 @@ export const CONCURRENT_CHANGE_MESSAGE = 'Another change to the same record happ
 export function mapDbError(error: unknown): never {
   if (error instanceof UniqueConstraintError) conflict('That already exists.')
   if (error instanceof ForeignKeyConstraintError) refuse({ code: 'REFERENCE_MISSING', message: 'A record it refers to does not exist.' })
-  if (error instanceof ValidationError) refuse({ code: 'INVALID_RECORD', message: error.message })
+  // The ORM's own message names models and columns; the client gets a plain one.
+  if (error instanceof ValidationError) refuse({ code: 'INVALID_RECORD', message: 'A value does not fit the record.' })
   if (error instanceof DatabaseError) {
     const code = (error.parent as { code?: string } | undefined)?.code
     // deadlock detected, serialization failure: two writes to one record at once; the client may retry

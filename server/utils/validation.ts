@@ -1,5 +1,6 @@
 import type { H3Event } from 'h3'
 import type { ZodType, ZodTypeDef } from 'zod'
+import { DEFAULT_MAX_BODY_BYTES } from './request-rules'
 
 type Schema<T> = ZodType<T, ZodTypeDef, unknown>
 
@@ -8,8 +9,8 @@ type Schema<T> = ZodType<T, ZodTypeDef, unknown>
 // eslint-disable-next-line no-control-regex
 const CONTROL_CHARS = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/
 
-/** The largest JSON body any route takes (the longest field, a waiver text, is 20 000 characters). */
-export const MAX_BODY_BYTES = 64 * 1024
+/** The largest JSON body validBody takes: the request guard's default limit per route. */
+export const MAX_BODY_BYTES = DEFAULT_MAX_BODY_BYTES
 /** How deeply a body may nest; our schemas need three levels at most. */
 export const MAX_BODY_DEPTH = 20
 
@@ -71,6 +72,7 @@ function tooLarge(): never {
  */
 export async function validBody<T>(event: H3Event, schema: Schema<T>): Promise<T> {
   if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_BODY_BYTES) tooLarge()
+  // The request guard (server/middleware) has already read the body, bounded while it streamed.
   const text = await readRawBody(event, 'utf8')
   if (text && Buffer.byteLength(text) > MAX_BODY_BYTES) tooLarge()
   let raw: unknown = {}

@@ -28,3 +28,47 @@ describe('mapDbError on two writes racing', () => {
     expect(() => mapDbError(error)).toThrow(error)
   })
 })
+
+describe('no ORM text reaches a response', () => {
+  it('answers a model validation error with a plain 422 that names no model or column', async () => {
+    const { ValidationError } = await import('sequelize')
+    const { mapDbError } = await import('../../server/utils/errors')
+    const error = new ValidationError('notNull Violation: Membership.guardianEmail cannot be null', [])
+    let thrown: { statusCode?: number, message?: string, data?: unknown } = {}
+    try {
+      mapDbError(error)
+    }
+    catch (e) {
+      thrown = e as typeof thrown
+    }
+    expect(thrown.statusCode).toBe(422)
+    expect(JSON.stringify([thrown.message, thrown.data])).not.toMatch(/Membership|guardian|notNull/i)
+  })
+
+  it.each([
+    ['an unhandled ORM error (500)', () => createError(dbError('42P01'))],
+    ['a 503 a service threw', () => createError({ statusCode: 503, message: 'No club is set up yet' })],
+  ])('replaces %s with one message and a reference, logged with the detail', async (_label, make) => {
+    const { hideServerError } = await import('../../server/utils/error-reference')
+    const lines: string[] = []
+    const error = make()
+    const shown = hideServerError(error, { method: 'POST', path: '/api/auth/login?x=1' }, line => lines.push(line))
+    expect(shown.statusCode).toBe(error.statusCode)
+    const reference = shown.message.match(/^Something went wrong on our side \(reference ([0-9A-F]{8})\)$/)?.[1]
+    expect(reference).toBeTruthy()
+    expect(shown.data).toEqual({ reference })
+    expect(JSON.stringify(shown)).not.toMatch(/pg 42P01|UPDATE|club is set up/)
+    expect(lines).toHaveLength(1)
+    const logged = JSON.parse(lines[0]!)
+    expect(logged).toMatchObject({ level: 'error', reference, method: 'POST', path: '/api/auth/login', status: error.statusCode })
+    expect(logged.error.message).toMatch(/pg 42P01|No club is set up yet/)
+  })
+
+  it('leaves a client error alone and logs nothing', async () => {
+    const { hideServerError } = await import('../../server/utils/error-reference')
+    const lines: string[] = []
+    const error = createError({ statusCode: 422, message: 'Not allowed today' })
+    expect(hideServerError(error, { method: 'POST', path: '/x' }, line => lines.push(line))).toBe(error)
+    expect(lines).toEqual([])
+  })
+})
