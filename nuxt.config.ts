@@ -29,6 +29,11 @@ export default defineNuxtConfig({
     // Sign-ups and password-reset requests allowed per address in an hour.
     signupMaxPerAddress: 10,
     resetRequestMaxPerAddress: 10,
+    // SMTP timeouts (ms) and the notice queue's lease (s; 0 = sized from the timeouts); tests shrink them.
+    smtpConnectionTimeoutMs: 10_000,
+    smtpGreetingTimeoutMs: 10_000,
+    smtpSocketTimeoutMs: 20_000,
+    noticeLeaseSeconds: 0,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

@@ -80,6 +80,20 @@ async function queueVerification(club: Club, user: User, membership: Membership,
   }, transaction)
 }
 
+/** Queues the "your password was changed" e-mail for the reset made with link `tokenId`, inside `transaction`. */
+async function queuePasswordChanged(club: Club, user: User, membership: Membership, tokenId: string, transaction: Transaction): Promise<void> {
+  const today = clubToday(club)
+  await enqueueNotice({
+    clubId: club.id,
+    membershipId: membership.id,
+    kind: 'password_changed',
+    subjectKey: tokenId,
+    dueOn: today,
+    toEmail: user.email,
+    vars: { clubName: club.name, memberName: user.name, baseUrl: clubBaseUrl(club), changedOn: today },
+  }, transaction)
+}
+
 /** Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside `transaction`. */
 export async function queueGuardianConsent(club: Club, user: User, membership: Membership, transaction: Transaction): Promise<void> {
   const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'guardian_consent' }, transaction)
@@ -251,9 +265,11 @@ export async function resetPassword(token: string, password: string): Promise<vo
         after: { otherResetLinksStopped: revoked },
         reason: 'New password set from an e-mailed reset link',
       }, transaction)
+      await queuePasswordChanged(membership.club, user, membership, row.id, transaction)
     }
     return user.email
   }).catch(mapDbError)
+  kickNoticeQueue()
   await clearLoginFailures(email.toLowerCase())
 }
 

@@ -16,6 +16,7 @@ export const AUDIT_ACTION_LABELS: Record<string, string> = {
   'account.password_reset': 'Reset a password from an e-mailed link',
   'waiver.publish': 'Published a waiver version',
   'notice.retry': 'Retried a notice',
+  'notice.run': 'Sent due e-mails now',
 }
 
 /** The label for `action`, or the action code itself when it has none. */
