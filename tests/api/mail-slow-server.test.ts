@@ -19,7 +19,7 @@ const DATABASE = 'hoopwise_test_mail_slow'
 const serverDbUrl = testEnv.databaseUrl.replace(/\/[^/]+$/, '/postgres')
 const databaseUrl = testEnv.databaseUrl.replace(/\/[^/]+$/, `/${DATABASE}`)
 const LEASE_SECONDS = 1
-const REPLY_DELAY_MS = 2_500
+const REPLY_DELAY_MS = 3_500
 
 interface Delivery { to: string[], subject: string }
 
@@ -132,9 +132,19 @@ const run = () => api('/api/notices/run', { method: 'POST', as: cookie, baseUrl 
 describe('a mail server slower than the lease', () => {
   it('delivers each notice exactly once when two queue runs go at once', async () => {
     const notices = await Promise.all(['a', 'b', 'c'].map(tag => memberWithNotice(tag)))
-    // Two runs at once, and a third once the first claims' leases have run out several times over.
+    const ids = notices.map(n => n.id)
     const both = Promise.all([run(), run()])
-    await new Promise(r => setTimeout(r, (LEASE_SECONDS + 0.5) * 1000))
+    // The server has a message and holds its reply; wait past the claim's (shortened) lease.
+    const deadline = Date.now() + 20_000
+    while (!notices.some(n => deliveredTo(n.email)) && Date.now() < deadline) await new Promise(r => setTimeout(r, 50))
+    await new Promise(r => setTimeout(r, (LEASE_SECONDS + 0.6) * 1000))
+    // A claim older than its lease carries the 1 s lease of the setting, renewed while the reply is awaited.
+    const inFlight = await sql<{ renewed: boolean, short: boolean }>(`SELECT locked_until >= updated_at + interval '1.25 seconds' AS renewed,
+      locked_until <= now() + interval '5 seconds' AS short FROM notices
+      WHERE id = ANY ($1::uuid[]) AND status = 'sending' AND updated_at < now() - interval '1 second'`, [ids], databaseUrl)
+    expect(inFlight.length).toBeGreaterThan(0)
+    for (const row of inFlight) expect(row).toEqual({ renewed: true, short: true })
+    // A third run now finds no lease run out to take over.
     const third = await run()
     const [first, second] = await both
     for (const answer of [first, second, third]) expect(answer.status).toBe(200)
@@ -142,7 +152,7 @@ describe('a mail server slower than the lease', () => {
 
     for (const n of notices) expect(deliveredTo(n.email), n.email).toBe(1)
     const rows = await sql<{ status: string, attempts: number }>(`SELECT status, attempts FROM notices WHERE id = ANY ($1::uuid[])`,
-      [notices.map(n => n.id)], databaseUrl)
+      [ids], databaseUrl)
     expect(rows).toEqual(notices.map(() => ({ status: 'sent', attempts: 1 })))
     // Another run later finds nothing more to send.
     expect((await run()).body.sent).toBe(0)
