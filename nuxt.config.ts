@@ -50,6 +50,11 @@ export default defineNuxtConfig({
     // The site's public address (NUXT_PUBLIC_URL): its origin is "this site" for requests that change
     // something, and an https address turns on HSTS.
     publicUrl: '',
+    // SMTP timeouts (ms) and the notice queue's lease (s; 0 = sized from the timeouts); tests shrink them.
+    smtpConnectionTimeoutMs: 10_000,
+    smtpGreetingTimeoutMs: 10_000,
+    smtpSocketTimeoutMs: 20_000,
+    noticeLeaseSeconds: 0,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

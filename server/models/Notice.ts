@@ -18,6 +18,8 @@ export class Notice extends Model {
   declare attempts: number
   declare nextAttemptAt: Date
   declare lockedUntil: Date | null
+  declare claimId: string | null
+  declare deferrals: number
   declare lastError: string | null
   declare sentAt: Date | null
   declare createdAt: Date
@@ -37,6 +39,8 @@ export class Notice extends Model {
       htmlBody: { type: DataTypes.TEXT, allowNull: false },
       status: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'queued' },
       attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+      claimId: { type: DataTypes.UUID },
+      deferrals: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
       nextAttemptAt: { type: DataTypes.DATE, allowNull: false, defaultValue: DataTypes.NOW },
       lockedUntil: { type: DataTypes.DATE, allowNull: true },
       lastError: { type: DataTypes.TEXT, allowNull: true },

@@ -86,6 +86,20 @@ async function queueVerification(club: Club, user: User, membership: Membership,
   }, transaction)
 }
 
+/** Queues the "your password was changed" e-mail for the reset made with link `tokenId`, inside `transaction`. */
+async function queuePasswordChanged(club: Club, user: User, membership: Membership, tokenId: string, transaction: Transaction): Promise<void> {
+  const today = clubToday(club)
+  await enqueueNotice({
+    clubId: club.id,
+    membershipId: membership.id,
+    kind: 'password_changed',
+    subjectKey: tokenId,
+    dueOn: today,
+    toEmail: user.email,
+    vars: { clubName: club.name, memberName: user.name, baseUrl: clubBaseUrl(club), changedOn: today },
+  }, transaction)
+}
+
 /**
  * Issues a guardian-consent link for `membership` and queues it to the guardian's e-mail, inside
  * `transaction`; 429 when the guardian's address has had its e-mails for the day (countRecipientMail).
@@ -261,9 +275,11 @@ export async function resetPassword(token: string, password: string, address: st
         after: { otherResetLinksStopped: revoked },
         reason: 'New password set from an e-mailed reset link',
       }, transaction)
+      await queuePasswordChanged(membership.club, user, membership, row.id, transaction)
     }
     return user.email
   }).catch(mapDbError)
+  kickNoticeQueue()
   await clearLoginFailures(email.toLowerCase())
 }
 

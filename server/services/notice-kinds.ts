@@ -81,6 +81,16 @@ export const NOTICE_KINDS = {
       'If it has expired, use "Forgot your password?" on the sign-in page to get a new one.',
     ], { label: 'Choose my password', url: v.actionUrl }),
   },
+  // Safety: tells the owner of the account at once when someone else used a reset link.
+  password_changed: {
+    optional: false,
+    label: 'Password changed',
+    render: v => notice(`Your ${v.clubName} password was changed`, [
+      `Hello ${v.memberName},`,
+      `The password of your ${v.clubName} account was changed on ${longDate(v.changedOn)} with a reset link sent to this address, and every session signed in before was ended.`,
+      'If it was you, there is nothing more to do. If it was not, ask for a new reset link at once and tell the club\'s officers.',
+    ], { label: 'Reset my password', url: `${v.baseUrl}/forgot-password` }),
+  },
   signup_approved: {
     optional: false,
     label: 'Sign-up approved',

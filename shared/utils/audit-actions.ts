@@ -17,6 +17,7 @@ export const AUDIT_ACTION_LABELS: Record<string, string> = {
   'waiver.publish': 'Published a waiver version',
   'notice.retry': 'Retried a notice',
   'membership.admin_created': 'Admin created from the command line',
+  'notice.run': 'Sent due e-mails now',
 }
 
 /** The label for `action`, or the action code itself when it has none. */

@@ -88,8 +88,10 @@ describe('the notice job', () => {
 
   it('skips a queued notice when the member opted out before it was sent', async () => {
     const member = await makeMember()
-    const id = await queuedNotice(member)
+    // Opted out first, then the row goes in: a background run kicked by another file could otherwise
+    // take the notice in between and rightly send it.
     await sql(`UPDATE memberships SET notice_opt_outs = ARRAY['dues_reminder'] WHERE id = $1`, [member.memberId])
+    const id = await queuedNotice(member)
     expect((await run()).status).toBe(200)
     const [row] = await eventually(async () => {
       const rows = await sql<{ status: string, last_error: string }>('SELECT status, last_error FROM notices WHERE id = $1', [id])

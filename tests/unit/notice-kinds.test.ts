@@ -118,12 +118,19 @@ describe('retry policy', () => {
 
   it.each([
     ['a refused connection', Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:1026'), { code: 'ESOCKET' }), 'unreachable'],
-    ['a timeout', Object.assign(new Error('Connection timeout'), { code: 'ETIMEDOUT' }), 'unreachable'],
-    ['a refused sign-in (535)', Object.assign(new Error('Invalid login'), { code: 'EAUTH', responseCode: 535 }), 'unreachable'],
+    ['a dropped connection', Object.assign(new Error('Connection closed unexpectedly'), { code: 'ECONNECTION' }), 'unreachable'],
+    ['an unknown host', Object.assign(new Error('getaddrinfo ENOTFOUND smtp.nowhere.example'), { code: 'EDNS' }), 'unreachable'],
+    ['a failed TLS upgrade', Object.assign(new Error('Error upgrading connection with STARTTLS'), { code: 'ETLS' }), 'unreachable'],
+    ['a connect timeout', Object.assign(new Error('Connection timeout'), { code: 'ETIMEDOUT', timeoutType: 'CONNECT_TIMEOUT' }), 'unreachable'],
+    ['no greeting', Object.assign(new Error('Greeting never received'), { code: 'ETIMEDOUT', timeoutType: 'GREETING_TIMEOUT' }), 'unreachable'],
+    ['a timeout mid-conversation', Object.assign(new Error('Timeout'), { code: 'ETIMEDOUT', timeoutType: 'SOCKET_TIMEOUT' }), 'transient'],
+    ['a refused sign-in (535)', Object.assign(new Error('Invalid login'), { code: 'EAUTH', responseCode: 535 }), 'transient'],
+    ['a refused sign-in without a reply', Object.assign(new Error('Invalid login'), { code: 'EAUTH' }), 'transient'],
     ['a busy mailbox (451)', Object.assign(new Error('Try later'), { code: 'EENVELOPE', responseCode: 451 }), 'transient'],
     ['no such mailbox (550)', Object.assign(new Error('No such user'), { code: 'EENVELOPE', responseCode: 550 }), 'permanent'],
     ['a rejected message (554)', Object.assign(new Error('Rejected'), { code: 'EMESSAGE', responseCode: 554 }), 'permanent'],
-    ['something odd', 'not an error', 'unreachable'],
+    ['a broken message stream', Object.assign(new Error('stream failed'), { code: 'ESTREAM' }), 'transient'],
+    ['something odd', 'not an error', 'transient'],
   ])('classifies %s', (_, error, kind) => {
     expect(classifySendError(error)).toBe(kind)
   })

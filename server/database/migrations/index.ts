@@ -4,6 +4,7 @@ import * as m0004 from './0004-member-directory'
 import * as m0005 from './0005-session-version'
 import * as m0007 from './0007-sessions'
 import * as m0008 from './0008-rate-limits'
+import * as m0009 from './0009-notice-claims'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -11,4 +12,5 @@ export const migrations = [
   { name: '0005-session-version', ...m0005 },
   { name: '0007-sessions', ...m0007 },
   { name: '0008-rate-limits', ...m0008 },
+  { name: '0009-notice-claims', ...m0009 },
 ]
