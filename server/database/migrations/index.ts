@@ -2,9 +2,11 @@
 import * as m0001 from './0001-foundation'
 import * as m0004 from './0004-member-directory'
 import * as m0005 from './0005-session-version'
+import * as m0010 from './0010-audit-actor-by-id'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
   { name: '0004-member-directory', ...m0004 },
   { name: '0005-session-version', ...m0005 },
+  { name: '0010-audit-actor-by-id', ...m0010 },
 ]
