@@ -5,7 +5,8 @@ export class AuditEvent extends Model {
   declare id: string
   declare clubId: string
   declare actorMembershipId: string | null
-  declare actorName: string
+  /** Only on rows without an actor id (a fixed label), and on rows written before actors were kept by id. */
+  declare actorName: string | null
   declare action: string
   declare subjectType: string
   declare subjectId: string | null
@@ -19,7 +20,7 @@ export class AuditEvent extends Model {
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       clubId: { type: DataTypes.UUID, allowNull: false },
       actorMembershipId: { type: DataTypes.UUID, allowNull: true },
-      actorName: { type: DataTypes.TEXT, allowNull: false },
+      actorName: { type: DataTypes.TEXT, allowNull: true },
       action: { type: DataTypes.TEXT, allowNull: false },
       subjectType: { type: DataTypes.TEXT, allowNull: false },
       subjectId: { type: DataTypes.UUID, allowNull: true },

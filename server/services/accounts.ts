@@ -155,7 +155,8 @@ export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> 
         action: 'membership.signed_up',
         subjectType: 'membership',
         subjectId: membership.id,
-        after: { email: created.email, name: created.name, junior, guardianEmail: membership.guardianEmail },
+        // Who signed up is the subject's id; no e-mail, name or guardian is copied into the trail.
+        after: { status: 'pending', junior },
       }, transaction)
       return created
     })
@@ -311,7 +312,7 @@ export async function guardianConsentPreview(token: string): Promise<GuardianCon
 
 /**
  * Records the guardian's consent from their e-mailed link (works once), with an audit event; the
- * actor is the guardian, who has no account, so the trail names them in the reason. The membership
+ * actor is the guardian, who has no account: the trail says "a guardian", never who. The membership
  * row is locked before the link is used (the one lock order, see services/member-actions.ts).
  */
 export async function confirmGuardianConsent(token: string): Promise<GuardianConsentDto> {
@@ -329,7 +330,8 @@ export async function confirmGuardianConsent(token: string): Promise<GuardianCon
       subjectId: m.id,
       before: { guardianConsentAt: null },
       after: { guardianConsentAt: new Date(m.guardianConsentAt!).toISOString() },
-      reason: `Consent confirmed by the guardian (${m.guardianName ?? 'unnamed'}, ${m.guardianEmail ?? 'no e-mail'}) from the e-mailed link`,
+      reason: 'Consent confirmed by the guardian from the e-mailed link',
+      by: 'guardian',
     }, transaction)
     return consentDto(m)
   }).catch(mapDbError)

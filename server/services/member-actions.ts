@@ -7,7 +7,7 @@ import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type Membe
 import type { MemberDto } from '../../shared/types/dto'
 import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
-import { recordAudit } from './audit'
+import { changedFields, recordAudit } from './audit'
 import { clubBaseUrl, clubToday } from './clubs'
 import { SCRUB_LINKS_SQL, enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
@@ -144,15 +144,21 @@ export async function changeMembership(actor: Actor, id: string, action: Members
     const refusal = rule.refusal(m, status, actor)
     if (refusal) refuse(refusal)
     const changes = rule.changes(reason, new Date())
+    // Statuses and times only: the suspension's reason is the event's own reason, not copied again.
     const before: Record<string, unknown> = { status }
-    for (const key of Object.keys(changes) as (keyof Changes)[]) before[key] = m[key]
+    const after: Record<string, unknown> = {}
+    for (const key of Object.keys(changes) as (keyof Changes)[]) {
+      if (key === 'suspendedReason') continue
+      before[key] = m[key]
+      after[key] = changes[key]
+    }
     await m.update(changes, { transaction })
     await recordAudit(actor, actor.club.id, {
       action: rule.action,
       subjectType: 'membership',
       subjectId: m.id,
       before,
-      after: { status: statusIn(m, actor), ...changes },
+      after: { status: statusIn(m, actor), ...after },
       reason,
     }, transaction)
     if (action === 'approve') await queueApproval(actor, m, transaction)
@@ -201,15 +207,16 @@ async function requestConsent(actor: Actor, m: Membership, user: User, reason: s
     action: 'member.guardian_consent_request',
     subjectType: 'membership',
     subjectId: m.id,
-    after: { guardianName: m.guardianName, guardianEmail: m.guardianEmail, linksStopped },
+    after: { linksStopped },
     reason,
   }, transaction)
 }
 
 /**
  * Edits a member's details (name on the account; contact, birth date and guardian on the membership)
- * in one transaction. The audit event carries before and after of the fields that really changed
- * and the optional reason; nothing changed, nothing written. 400 when the birth date lies in the
+ * in one transaction. The audit events name the fields that really changed, never their values (the
+ * trail can never be erased): "Changed a name" for a new name, "Edited member details" for the rest,
+ * each with the optional reason; nothing changed, nothing written. 400 when the birth date lies in the
  * future (the club's calendar) or a member who is under 18 after the edit lacks a guardian's name
  * or e-mail. A new guardian e-mail clears the consent, stops the old consent links and sends the
  * new guardian a fresh one.
@@ -219,16 +226,14 @@ export async function editMember(actor: Actor, id: string, edit: MemberEdit): Pr
     const m = await lockForAction(actor, id, 'members.manage', transaction)
     const user = await User.findByPk(m.userId, { transaction, lock: transaction.LOCK.UPDATE })
     if (!user) notFound('No such member')
-    const before: Record<string, unknown> = {}
-    const after: Record<string, unknown> = {}
+    const changed: string[] = []
     const diff = <T extends object>(target: T, fields: readonly string[]) => {
       const set: Record<string, unknown> = {}
       for (const field of fields) {
         const next = edit[field as keyof MemberEdit]
         const current = (target as Record<string, unknown>)[field] ?? null
         if (next === undefined || next === current) continue
-        before[field] = current
-        after[field] = next
+        changed.push(field)
         set[field] = next
       }
       return set
@@ -241,19 +246,24 @@ export async function editMember(actor: Actor, id: string, edit: MemberEdit): Pr
     const future = futureBirthDateIssue(edit.birthDate, today)
     const issues = future ? [future] : juniorGuardianIssues(next, today, user.email)
     if (issues.length) refuseFields(issues)
-    if (!Object.keys(after).length) return false
+    if (!changed.length) return false
 
     const wasJunior = isJunior(m.birthDate, today)
     const guardianChanged = 'guardianEmail' in memberSet
     if (guardianChanged && m.guardianConsentAt) {
-      before.guardianConsentAt = new Date(m.guardianConsentAt).toISOString()
-      after.guardianConsentAt = null
+      changed.push('guardianConsentAt')
       memberSet.guardianConsentAt = null
     }
     if (Object.keys(userSet).length) await user.update(userSet, { transaction })
     if (Object.keys(memberSet).length) await m.update(memberSet, { transaction })
     const reason = edit.reason ?? null
-    await recordAudit(actor, actor.club.id, { action: 'member.edit', subjectType: 'membership', subjectId: m.id, before, after, reason }, transaction)
+    if ('name' in userSet) {
+      await recordAudit(actor, actor.club.id, { action: 'member.rename', subjectType: 'membership', subjectId: m.id, after: changedFields(['name']), reason }, transaction)
+    }
+    const others = changed.filter(field => field !== 'name')
+    if (others.length) {
+      await recordAudit(actor, actor.club.id, { action: 'member.edit', subjectType: 'membership', subjectId: m.id, after: changedFields(others), reason }, transaction)
+    }
 
     // A new guardian (or a member who has just become a junior) is asked for consent afresh.
     const askGuardian = isJunior(m.birthDate, today) && !!m.guardianEmail && !m.guardianConsentAt && (guardianChanged || !wasJunior)

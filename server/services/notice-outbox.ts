@@ -75,8 +75,8 @@ export async function retryNotice(actor: Actor, noticeId: string): Promise<Notic
   const clubId = actor.club.id
   const db = useDb()
   const dto = await db.transaction(async (transaction) => {
-    const [before] = await db.query<{ status: string, kind: string, attempts: number, last_error: string | null }>(
-      'SELECT status, kind, attempts, last_error FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    const [before] = await db.query<{ status: string, kind: string, attempts: number }>(
+      'SELECT status, kind, attempts FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
       { replacements: { id: noticeId, clubId }, type: QueryTypes.SELECT, transaction })
     if (!before) notFound('No such notice')
     if (before.status === 'sent') conflict('This notice has already been sent.')
@@ -90,7 +90,8 @@ export async function retryNotice(actor: Actor, noticeId: string): Promise<Notic
       action: 'notice.retry',
       subjectType: 'notice',
       subjectId: noticeId,
-      before: { status: before.status, attempts: before.attempts, lastError: before.last_error },
+      // Not the last error: a mail server's reply may quote the recipient's address.
+      before: { status: before.status, attempts: before.attempts },
       after: { status: 'queued' },
     }, transaction)
     const [row] = await db.query<NoticeRow>(`${SELECT_NOTICE} WHERE n.id = :id`,

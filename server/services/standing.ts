@@ -3,6 +3,7 @@ import { Membership, User } from '../models'
 import { loadMemberDto } from './members'
 import { addCalendarDays, daysBetween, DUES_RENEWAL_NOTICE_DAYS } from '../../shared/utils/membership-status'
 import { clubToday } from './clubs'
+import { changedFields, recordAudit } from './audit'
 import { formatCalendarDate as long } from '../../shared/utils/dates'
 import type { Profile } from '../../shared/schemas/member'
 import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../shared/types/dto'
@@ -84,7 +85,8 @@ export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
 /**
  * The member's own profile edit: name (on the account) and contact details (on the membership),
  * in one transaction that locks the membership row, then the account's (as a member edit does).
- * Not audited: contact details are the member's own, not a privileged change.
+ * Contact details are the member's own and not audited; a new name is ("Changed a name", without
+ * either name): taking another officer's name is how one would pass one's acts off as theirs.
  * Fields left out are kept; fields sent empty are cleared.
  */
 export async function updateProfile(actor: Actor, profile: Profile): Promise<MemberDto | null> {
@@ -93,8 +95,13 @@ export async function updateProfile(actor: Actor, profile: Profile): Promise<Mem
   await useDb().transaction(async (transaction) => {
     // The one lock order (services/member-actions.ts): the membership row, then the account's.
     await Membership.findOne({ where: { id: actor.membership.id, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
-    await User.findByPk(actor.user.id, { transaction, lock: transaction.LOCK.UPDATE })
-    await User.update({ name }, { where: { id: actor.user.id }, transaction })
+    const user = await User.findByPk(actor.user.id, { transaction, lock: transaction.LOCK.UPDATE })
+    if (user && user.name !== name) {
+      await User.update({ name }, { where: { id: actor.user.id }, transaction })
+      await recordAudit(actor, actor.club.id, {
+        action: 'member.rename', subjectType: 'membership', subjectId: actor.membership.id, after: changedFields(['name']),
+      }, transaction)
+    }
     if (Object.keys(changes).length) {
       await Membership.update(changes, { where: { id: actor.membership.id, clubId: actor.club.id }, transaction })
     }

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { isJunior } from '../utils/membership-status'
-import { emailField, isoDate, optionalText } from './common'
+import { emailField, isoDate, nameField, optionalName } from './common'
 
 export const passwordField = z.string().min(10, 'At least 10 characters').max(200, 'At most 200 characters')
 
@@ -15,11 +15,11 @@ export const EARLIEST_BIRTH_DATE = '1900-01-01'
 
 /** Sign-up: an account and a pending membership. Under-18s name a guardian who must consent. */
 export const SignupSchema = z.object({
-  name: z.string().trim().min(1, 'Enter your name').max(120, 'At most 120 characters'),
+  name: nameField(),
   email: emailField,
   password: passwordField,
   birthDate: isoDate,
-  guardianName: optionalText(120),
+  guardianName: optionalName(),
   guardianEmail: z.union([emailField, z.literal('')]).transform(v => (v === '' ? null : v)).nullable().optional(),
 })
 export type Signup = z.infer<typeof SignupSchema>

@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { ROLES } from '../utils/permissions'
 import { isJunior, MEMBERSHIP_STATUSES } from '../utils/membership-status'
-import { emailField, isoDate, optionalText, PageQuerySchema } from './common'
+import { emailField, isoDate, nameField, optionalName, PageQuerySchema } from './common'
 import { EARLIEST_BIRTH_DATE } from './auth'
 
 const phone = z.string().trim().max(40, 'At most 40 characters')
@@ -10,22 +10,29 @@ const phone = z.string().trim().max(40, 'At most 40 characters')
 
 /** What a member edits about themselves. */
 export const ProfileSchema = z.object({
-  name: z.string().trim().min(1, 'Enter your name').max(120, 'At most 120 characters'),
+  name: nameField(),
   phone,
-  emergencyContactName: optionalText(120),
+  emergencyContactName: optionalName(),
   emergencyContactPhone: phone,
   unitPreference: z.enum(['bar', 'psi']),
 })
 export type Profile = z.infer<typeof ProfileSchema>
 
+/**
+ * What every reason field tells the officer writing it: the audit trail can never be changed or
+ * erased, so a reason must not carry what a member may later ask to have erased.
+ */
+export const REASON_HINT = 'Kept in the audit trail for good: no personal details (no names, contact details, health or family matters).'
+
 export const reasonField = z.string().trim().min(3, 'Give a reason (at least 3 characters)').max(500, 'At most 500 characters')
+  .describe(REASON_HINT)
 
 /** What an admin edits on a member: the profile plus birth date and guardian, and an optional reason for the audit trail. */
 export const MemberEditSchema = ProfileSchema.extend({
   // '' (a cleared date input) clears the birth date. Before 1900 is a typing slip (and year 0 is no date at all).
   birthDate: z.preprocess(v => (v === '' ? null : v), isoDate
     .refine(v => v >= EARLIEST_BIRTH_DATE, 'Check the year of the birth date').nullable().optional()),
-  guardianName: optionalText(120),
+  guardianName: optionalName(),
   guardianEmail: z.union([emailField, z.literal('')]).transform(v => (v === '' ? null : v)).nullable().optional(),
   // A blank reason is no reason.
   reason: z.preprocess(v => (typeof v === 'string' && v.trim() === '' ? undefined : v), reasonField.optional()),

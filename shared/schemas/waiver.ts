@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { nameField } from './common'
 
 export const WaiverPublishSchema = z.object({
   title: z.string().trim().min(1, 'Enter a title').max(200, 'At most 200 characters'),
@@ -9,7 +10,7 @@ export type WaiverPublish = z.infer<typeof WaiverPublishSchema>
 /** Accepting the current version: the member types their name and names the version they read. */
 export const WaiverAcceptSchema = z.object({
   version: z.number().int().min(1),
-  typedName: z.string().trim().min(1, 'Type your full name').max(120, 'At most 120 characters'),
+  typedName: nameField('Type your full name'),
 })
 export type WaiverAccept = z.infer<typeof WaiverAcceptSchema>
 

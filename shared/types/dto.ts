@@ -92,6 +92,9 @@ export interface NoticeDto {
 
 export interface AuditEventDto {
   id: string
+  /** The acting membership (null for the system or a guardian's e-mailed link). */
+  actorId?: string | null
+  /** The actor's name as it is now (or the fixed label of a non-member actor). */
   actorName: string
   action: string
   subjectType: string

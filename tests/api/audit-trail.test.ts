@@ -48,7 +48,7 @@ describe('GET /api/audit', () => {
       subjectId: m.memberId,
       subjectName: m.name,
       before: { status: 'active' },
-      after: { status: 'suspended', suspendedReason: 'Third reason' },
+      after: { status: 'suspended' },
     })
     const times = res.body.items.map(e => e.createdAt)
     expect(times).toEqual([...times].sort().reverse())

@@ -76,9 +76,11 @@ describe('the waiver life cycle in one club', () => {
     const [old] = await sql<{ title: string, body: string }>(`SELECT title, body FROM waivers WHERE id = $1`, [first.body.id])
     expect(old).toEqual(text(1))
 
-    // Each publication is in the audit trail, with the officer as the actor.
+    // Each publication is in the audit trail, with the officer as the actor (kept by id; the name is theirs now).
     const events = await sql<{ action: string, actor_name: string, subject_id: string, before: unknown, after: { version: number } }>(
-      `SELECT action, actor_name, subject_id, before, after FROM audit_events WHERE club_id = $1 AND action = 'waiver.publish' ORDER BY created_at`, [club.id])
+      `SELECT a.action, u.name AS actor_name, a.subject_id, a.before, a.after FROM audit_events a
+       JOIN memberships m ON m.id = a.actor_membership_id JOIN users u ON u.id = m.user_id
+       WHERE a.club_id = $1 AND a.action = 'waiver.publish' ORDER BY a.created_at`, [club.id])
     expect(events).toEqual([
       { action: 'waiver.publish', actor_name: 'Sabine Testwarden', subject_id: first.body.id, before: null, after: { version: v1, title: text(1).title } },
       { action: 'waiver.publish', actor_name: 'Sabine Testwarden', subject_id: second.body.id, before: { version: v1 }, after: { version: v2, title: text(2).title } },

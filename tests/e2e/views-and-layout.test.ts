@@ -103,6 +103,23 @@ describe('views kept in the address', () => {
       await page.close()
     }
   })
+
+  it('the audit trail says which contact fields changed, in words, and names the actor as they are now', async () => {
+    const member = await makeMember()
+    const edit = await api(`/api/members/${member.memberId}`, { method: 'PATCH', as: 'admin', body: { phone: '+44 1632 960888', emergencyContactName: 'Odile Ferncastle' } })
+    expect(edit.status).toBe(200)
+    const page = await signedInPage(DEMO.admin, DEMO.password)
+    try {
+      await goTo(page, `/audit?subjectId=${member.memberId}`)
+      const event = page.getByTestId('audit-event').first()
+      await expect.poll(() => event.getByTestId('audit-changed-fields').textContent()).toContain('Phone, Emergency contact changed')
+      expect(await event.getByTestId('audit-actor').textContent()).toContain('Anselm Brackwater')
+      expect(await event.textContent()).not.toContain('Odile Ferncastle')
+    }
+    finally {
+      await page.close()
+    }
+  })
 })
 
 describe('times in the club\'s time zone', () => {

@@ -2,7 +2,7 @@ import { readdirSync, readFileSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { describe, expect, it } from 'vitest'
 import { ROOT } from '../../scripts/lib/config.mjs'
-import { AUDIT_ACTION_LABELS, auditActionLabel } from '../../shared/utils/audit-actions'
+import { AUDIT_ACTION_LABELS, auditActionLabel, changedFieldsOf, changedFieldsText } from '../../shared/utils/audit-actions'
 
 /**
  * Every audit action the server records has a readable label on the audit page. The action names
@@ -70,5 +70,23 @@ describe('audit action labels', () => {
   it('has a label for every action the server records', () => {
     expect([...names].filter(name => !AUDIT_ACTION_LABELS[name]).sort()).toEqual([])
     for (const name of names) expect(auditActionLabel(name)).not.toBe(name)
+  })
+})
+
+describe('changed fields in words', () => {
+  it.each([
+    [['phone', 'emergencyContactName'], 'Phone, Emergency contact changed'],
+    [['name'], 'Name changed'],
+    [['guardianEmail', 'guardianConsentAt'], 'Guardian\'s e-mail, Guardian consent changed'],
+    [['somethingNew'], 'somethingNew changed'],
+  ])('%o reads "%s"', (fields, text) => {
+    expect(changedFieldsText(fields)).toBe(text)
+  })
+
+  it('reads the field list of an event that records which fields changed, and nothing else', () => {
+    expect(changedFieldsOf({ changed: ['phone'] })).toEqual(['phone'])
+    expect(changedFieldsOf({ status: 'active' })).toBeNull()
+    expect(changedFieldsOf({ changed: [{ phone: '1' }] })).toBeNull()
+    expect(changedFieldsOf(null)).toBeNull()
   })
 })

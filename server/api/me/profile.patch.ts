@@ -3,8 +3,9 @@ import { updateProfile } from '../../services/standing'
 import { renameInSession } from '../../services/sessions'
 
 /**
- * Edit my own profile: name, phone, emergency contact, unit preference. Not audited (own contact
- * details). The session's name follows so the header shows the new one at once.
+ * Edit my own profile: name, phone, emergency contact, unit preference. Contact details are not
+ * audited (they are my own); a new name is, without either name. The session's name follows so the
+ * header shows the new one at once.
  */
 export default defineEventHandler(async (event) => {
   const actor = await requireMember(event)

@@ -5,6 +5,7 @@ import * as m0005 from './0005-session-version'
 import * as m0007 from './0007-sessions'
 import * as m0008 from './0008-rate-limits'
 import * as m0009 from './0009-notice-claims'
+import * as m0010 from './0010-audit-actor-by-id'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -13,4 +14,5 @@ export const migrations = [
   { name: '0007-sessions', ...m0007 },
   { name: '0008-rate-limits', ...m0008 },
   { name: '0009-notice-claims', ...m0009 },
+  { name: '0010-audit-actor-by-id', ...m0010 },
 ]
