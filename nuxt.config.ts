@@ -1,4 +1,6 @@
 // Nuxt configuration: root layout (no app/ folder), Tailwind, Pinia, sealed-cookie sessions.
+import { SCRYPT_OPTIONS } from './server/services/password-hashing'
+
 export default defineNuxtConfig({
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint'],
   devtools: { enabled: false },
@@ -29,7 +31,12 @@ export default defineNuxtConfig({
     // Sign-ups and password-reset requests allowed per address in an hour.
     signupMaxPerAddress: 10,
     resetRequestMaxPerAddress: 10,
+    // Password hashes (32 MiB each) running at once, and how many more may wait before a 503.
+    passwordHashConcurrency: 2,
+    passwordHashMaxWaiting: 64,
   },
+  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
+  auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   compatibilityDate: '2025-07-15',
   nitro: {
     experimental: { tasks: true },
