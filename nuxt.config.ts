@@ -35,13 +35,13 @@ export default defineNuxtConfig({
     passwordHashConcurrency: 2,
     passwordHashMaxWaiting: 64,
   },
-  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
-  auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   compatibilityDate: '2025-07-15',
   nitro: {
     experimental: { tasks: true },
     scheduledTasks: { '*/10 * * * *': ['notices:run'] },
   },
   typescript: { strict: true },
+  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
+  auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   eslint: { config: { stylistic: { semi: false, quotes: 'single', commaDangle: 'always-multiline' } } },
 })

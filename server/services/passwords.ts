@@ -1,4 +1,4 @@
-import { z } from 'zod'
+import type { z } from 'zod'
 import { dictionary } from '@zxcvbn-ts/language-common'
 import { passwordField } from '../../shared/schemas/auth'
 import { createPasswordHash } from './password-hashing'
