@@ -34,4 +34,15 @@ describe('the member page before approval', () => {
     expect(await page.getByTestId('approval-waits').count()).toBe(0)
     await page.close()
   })
+
+  it('the waiver page asks a member with an unconfirmed e-mail to confirm it before accepting', async () => {
+    const member = await makeMember({ verified: false, acceptWaiver: false })
+    const page = await createPage('/login')
+    await submitSignIn(page, member.email, member.password)
+    await page.waitForURL(url => url.pathname === '/')
+    await goTo(page, '/waiver')
+    await expect.poll(() => page.getByTestId('waiver-needs-email').textContent()).toContain('Confirm your e-mail address first')
+    expect(await page.getByTestId('waiver-accept-form').count()).toBe(0)
+    await page.close()
+  })
 })
