@@ -2,6 +2,7 @@
 
 /** A quoted keyword of a content security policy: q('self') → "'self'". */
 const q = (keyword: string) => `'${keyword}'`
+import { SCRYPT_OPTIONS } from './server/services/password-hashing'
 
 export default defineNuxtConfig({
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', 'nuxt-security'],
@@ -55,6 +56,9 @@ export default defineNuxtConfig({
     smtpGreetingTimeoutMs: 10_000,
     smtpSocketTimeoutMs: 20_000,
     noticeLeaseSeconds: 0,
+    // Password hashes (32 MiB each) running at once, and how many more may wait before a 503.
+    passwordHashConcurrency: 2,
+    passwordHashMaxWaiting: 64,
   },
   compatibilityDate: '2025-07-15',
   nitro: {
@@ -62,6 +66,8 @@ export default defineNuxtConfig({
     scheduledTasks: { '*/10 * * * *': ['notices:run'] },
   },
   typescript: { strict: true },
+  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
+  auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   eslint: { config: { stylistic: { semi: false, quotes: 'single', commaDangle: 'always-multiline' } } },
   // Headers only: the project's own guard (server/middleware/0.request-guard.ts) bounds bodies, checks
   // media types and other sites' requests; sign-in has its own limits. nuxt-security's rate limiter,

@@ -21,7 +21,9 @@ export default defineConfig({
           include: ['tests/api/**/*.test.ts'],
           environment: 'node',
           globalSetup: ['tests/support/global-setup.ts'],
-          testTimeout: 30_000,
+          // Each password hash costs about a third of a second alone and several times that while the
+          // suites share two cores; tests that sign in or reset many times need the room.
+          testTimeout: 60_000,
           hookTimeout: 120_000,
           maxWorkers: 2,
         },

@@ -1,15 +1,19 @@
 // Migrations and the demo seed, run from the scripts (outside the server) through jiti, which loads
 // the same TypeScript modules the server is built from.
 import { createJiti } from 'jiti'
-import { Hash } from '@adonisjs/hash'
-import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 
 const jiti = createJiti(import.meta.url)
 
-/** Same algorithm and defaults as nuxt-auth-utils' hashPassword, so sign-in verifies these hashes. */
+/**
+ * A function hashing a password with THE server's scrypt parameters (server/services/password-hashing.ts,
+ * the one definition), so sign-in verifies these hashes and never needs to re-hash them.
+ */
 export function makePasswordHasher() {
-  const hash = new Hash(new Scrypt({}))
-  return plain => hash.make(plain)
+  let hash
+  return async (plain) => {
+    hash ??= jiti.import('../../server/services/password-hashing.ts').then(m => m.createPasswordHash())
+    return (await hash).make(plain)
+  }
 }
 
 /** The role a PostgreSQL URL connects as ('' when the URL names none). */

@@ -11,6 +11,7 @@ import { enqueueNotice } from './notices'
 import { kickNoticeQueue } from './notice-queue'
 import { revokeSessions, sessionFor, type SessionStart } from './sessions'
 import { consumeToken, issueToken, peekToken, recentTokenCount, revokeTokens } from './tokens'
+import { checkPassword, makePasswordHash, passwordNeedsNewHash } from './passwords'
 
 /** The message for a sign-up with an e-mail already in use: says no more than that. */
 export const EMAIL_TAKEN_MESSAGE = 'An account with this e-mail already exists. Sign in, or reset your password.'
@@ -46,8 +47,9 @@ export async function signIn(email: string, password: string, address: string, k
   const account = email.toLowerCase()
   const attempt = await claimLoginAttempt(account, address, knownDevice)
   const user = await findUserByEmail(account)
-  dummyHash ??= hashPassword('not-a-real-password-0000')
-  const ok = user ? await verifyPassword(user.passwordHash, password) : (await verifyPassword(await dummyHash, password), false)
+  dummyHash ??= makePasswordHash('not-a-real-password-0000')
+  const ok = user ? await checkPassword(user.passwordHash, password) : (await checkPassword(await dummyHash, password), false)
+  if (ok && user) await upgradePasswordHash(user, password)
   const session = ok && user ? await sessionFor(user) : null
   if (!session) {
     await loginFailed(attempt)
@@ -55,6 +57,25 @@ export async function signIn(email: string, password: string, address: string, k
   }
   await loginSucceeded(attempt)
   return session
+}
+
+/**
+ * Re-hashes a password that was just verified when its stored hash uses older (cheaper) scrypt
+ * parameters, so every account moves to today's on its next sign-in. The write only replaces the
+ * hash it read: a password reset in between wins. A failure (say, the server too busy for one more
+ * hash) is logged and leaves the old hash for the next sign-in; the sign-in goes on.
+ */
+export async function upgradePasswordHash(user: Pick<User, 'id' | 'passwordHash'>, password: string): Promise<boolean> {
+  if (!passwordNeedsNewHash(user.passwordHash)) return false
+  try {
+    const passwordHash = await makePasswordHash(password)
+    const [changed] = await User.update({ passwordHash }, { where: { id: user.id, passwordHash: user.passwordHash } })
+    return changed > 0
+  }
+  catch (error) {
+    console.error('[accounts] re-hashing a password failed:', error)
+    return false
+  }
 }
 
 /**
@@ -136,7 +157,7 @@ export interface SignupOutcome { session: SessionStart, verificationSentTo: stri
 export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> {
   const junior = isJunior(input.birthDate, clubToday(club))
   if (await findUserByEmail(input.email)) conflict(EMAIL_TAKEN_MESSAGE)
-  const passwordHash = await hashPassword(input.password)
+  const passwordHash = await makePasswordHash(input.password)
   let user: User
   try {
     user = await useDb().transaction(async (transaction) => {
@@ -255,7 +276,7 @@ export async function resetPassword(token: string, password: string, address: st
   // Look at the link before the slow hash (a dead link costs no scrypt), and hash before the
   // transaction (no transaction waits on it); the conditional consume below still settles races.
   const peeked = await peekToken(token, 'reset_password')
-  const passwordHash = await hashPassword(password)
+  const passwordHash = await makePasswordHash(password)
   const email = await useDb().transaction(async (transaction) => {
     const user = await lockUser(peeked.userId, transaction)
     const row = await consumeToken(token, 'reset_password', transaction)

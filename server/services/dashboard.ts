@@ -64,11 +64,26 @@ async function memberCards(clubId: string, today: string, graceDays: number): Pr
   }))
 }
 
-/** members.manage: sign-ups waiting for the admin's approval (the pending list it links to also holds approved, unpaid members). */
-async function approvalCard(clubId: string): Promise<Card> {
-  const n = await count(`SELECT count(*)::int AS n FROM memberships
-    WHERE club_id = :clubId AND approved_at IS NULL AND suspended_at IS NULL AND resigned_at IS NULL`, { clubId })
-  return { key: 'pending-approvals', title: 'Sign-ups to approve', value: n, hint: n ? 'New members wait for your approval. The pending list also shows approved members who have not paid yet.' : 'No sign-up is waiting.', to: '/members?status=pending', tone: n ? 'attention' : 'ok', group: 'office' }
+/**
+ * members.manage: sign-ups waiting for the admin's approval (the pending list it links to also holds
+ * approved, unpaid members), and how many of them are ready: the e-mail confirmed and, for a junior
+ * (under 18 on the club's `today`), the guardian's consent given (the rule of shared/utils/approval.ts).
+ */
+async function approvalCard(clubId: string, today: string): Promise<Card> {
+  const [row] = await useDb().query<{ n: number, ready: number }>(`
+    SELECT count(*)::int AS n,
+      count(*) FILTER (WHERE u.email_verified_at IS NOT NULL AND (m.guardian_consent_at IS NOT NULL
+        OR m.birth_date IS NULL OR m.birth_date <= (CAST(:today AS date) - interval '18 years')::date))::int AS ready
+    FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.club_id = :clubId AND m.approved_at IS NULL AND m.suspended_at IS NULL AND m.resigned_at IS NULL`,
+  { replacements: { clubId, today }, type: QueryTypes.SELECT })
+  const n = row?.n ?? 0
+  const ready = row?.ready ?? 0
+  const waiting = n - ready
+  const hint = !n
+    ? 'No sign-up is waiting.'
+    : `${ready} ready to approve${waiting ? `; ${waiting} still wait${waiting === 1 ? 's' : ''} for a confirmed e-mail or a guardian's consent` : ''}. The pending list also shows approved members who have not paid yet.`
+  return { key: 'pending-approvals', title: 'Sign-ups to approve', value: n, hint, to: '/members?status=pending', tone: ready ? 'attention' : n ? 'neutral' : 'ok', group: 'office' }
 }
 
 /** notices.manage: queued and failed e-mails. */
@@ -116,7 +131,7 @@ export async function loadDashboard(actor: Actor): Promise<DashboardDto | null> 
   const { today } = standing
   const cards = myCards(standing)
   if (actorCan(actor, 'members.read')) cards.push(...await memberCards(clubId, today, graceDays))
-  if (actorCan(actor, 'members.manage')) cards.push(await approvalCard(clubId))
+  if (actorCan(actor, 'members.manage')) cards.push(await approvalCard(clubId, today))
   if (actorCan(actor, 'notices.manage')) cards.push(...await noticeCards(clubId))
   if (actorCan(actor, 'policy.edit')) cards.push(...await waiverCards(clubId, today, graceDays, standing.member.waiver.currentVersion))
   if (actorCan(actor, 'audit.read')) cards.push(await auditCard(clubId))

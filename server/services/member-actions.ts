@@ -5,6 +5,7 @@ import { isJunior, membershipStatus, statusKeepsRights, type MembershipStatus } 
 import { normaliseRoles, rolesCan, type Capability, type Role } from '../../shared/utils/permissions'
 import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type MemberEdit } from '../../shared/schemas/member'
 import type { MemberDto } from '../../shared/types/dto'
+import { approvalBlockers } from '../../shared/utils/approval'
 import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
 import { changedFields, recordAudit } from './audit'
@@ -116,10 +117,25 @@ async function reload(actor: Actor, id: string): Promise<MemberDto> {
   return dto
 }
 
-/** Queues the "sign-up approved" e-mail for membership `m` inside `transaction`. */
-async function queueApproval(actor: Actor, m: Membership, transaction: Transaction): Promise<void> {
-  const user = await User.findByPk(m.userId, { transaction })
-  if (!user) return
+/**
+ * 422 when sign-up `m` may not be approved yet: its e-mail is unconfirmed (EMAIL_NOT_CONFIRMED), or
+ * it is a junior's without the guardian's consent (GUARDIAN_CONSENT_MISSING); both listed when both
+ * hold. Reads the account after the membership row is locked (the one lock order). Returns the account.
+ */
+async function checkApprovalReady(actor: Actor, m: Membership, transaction: Transaction): Promise<User> {
+  const user = await User.findByPk(m.userId, { transaction, rejectOnEmpty: true })
+  const blockers = approvalBlockers({
+    name: user.name,
+    emailVerified: !!user.emailVerifiedAt,
+    junior: isJunior(m.birthDate, clubToday(actor.club)),
+    guardianConsentAt: m.guardianConsentAt,
+  })
+  if (blockers.length) refuse(blockers)
+  return user
+}
+
+/** Queues the "sign-up approved" e-mail for membership `m` and its account `user` inside `transaction`. */
+async function queueApproval(actor: Actor, m: Membership, user: User, transaction: Transaction): Promise<void> {
   await enqueueNotice({
     clubId: actor.club.id,
     membershipId: m.id,
@@ -134,7 +150,8 @@ async function queueApproval(actor: Actor, m: Membership, transaction: Transacti
 /**
  * Approves, suspends, reinstates, marks resigned or rejoins membership `id` of the actor's club, in
  * one transaction with its audit event (before → after, with the reason). 404 for a membership of
- * another club; 422 with a reason code when the rule refuses. Approval queues the welcome e-mail.
+ * another club; 422 with a reason code when the rule refuses. Approval waits for a confirmed e-mail
+ * and, for a junior, the guardian's consent (422 until then), and queues the welcome e-mail.
  */
 export async function changeMembership(actor: Actor, id: string, action: MembershipActionName, reason: string): Promise<MemberDto> {
   const rule = RULES[action]
@@ -143,6 +160,7 @@ export async function changeMembership(actor: Actor, id: string, action: Members
     const status = statusIn(m, actor)
     const refusal = rule.refusal(m, status, actor)
     if (refusal) refuse(refusal)
+    const account = action === 'approve' ? await checkApprovalReady(actor, m, transaction) : null
     const changes = rule.changes(reason, new Date())
     // Statuses and times only: the suspension's reason is the event's own reason, not copied again.
     const before: Record<string, unknown> = { status }
@@ -161,7 +179,7 @@ export async function changeMembership(actor: Actor, id: string, action: Members
       after: { status: statusIn(m, actor), ...after },
       reason,
     }, transaction)
-    if (action === 'approve') await queueApproval(actor, m, transaction)
+    if (account) await queueApproval(actor, m, account, transaction)
     // A suspended or resigned member signs in again to see their standing, with no capability.
     if (action === 'suspend' || action === 'resign') {
       await revokeSessions({ membershipId: m.id }, action === 'suspend' ? 'suspended' : 'resigned', actor.address ?? null, transaction)

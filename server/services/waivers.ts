@@ -4,6 +4,7 @@ import { recordAudit } from './audit'
 import { waiverStanding } from './members'
 import type { Actor } from '../utils/auth'
 import type { WaiverAccept, WaiverPublish } from '../../shared/schemas/waiver'
+import { WAIVER_NEEDS_EMAIL } from '../../shared/utils/approval'
 import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../shared/types/dto'
 
 interface WaiverRow {
@@ -82,12 +83,14 @@ export function sameName(a: string, b: string): boolean {
 
 /**
  * Records the member's acceptance of the version in force (typed name, time, version).
- * 422 WAIVER_OUTDATED when `version` is not the current one, NAME_MISMATCH when the typed name is
+ * 422 EMAIL_NOT_CONFIRMED until the member has confirmed their e-mail (the acceptance is a signed
+ * record: it must belong to an address that is known to be theirs), WAIVER_OUTDATED when `version` is not the current one, NAME_MISMATCH when the typed name is
  * not the member's (both listed when both fail), NO_WAIVER when none is published. Accepting the
  * same version twice is idempotent: the first acceptance stands and `alreadyAccepted` is true.
  */
 export async function acceptWaiver(actor: Actor, input: WaiverAccept): Promise<WaiverAcceptedDto> {
   const clubId = actor.club.id
+  if (!actor.user.emailVerifiedAt) refuse(WAIVER_NEEDS_EMAIL)
   const current = await Waiver.findOne({ where: { clubId }, order: [['version', 'DESC']] })
   if (!current) refuse({ code: 'NO_WAIVER', message: 'The club has not published a waiver yet.' })
   const reasons = []

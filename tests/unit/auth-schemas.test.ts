@@ -58,7 +58,7 @@ describe('signupSchemaFor(today)', () => {
     ['a birth date before 1900', { ...adult, birthDate: '1899-12-31' }, { birthDate: 'Check the year of the birth date' }],
     ['a date that is not on the calendar', { ...adult, birthDate: '1990-02-30' }, { birthDate: 'Not a calendar date' }],
     ['a date in another form', { ...adult, birthDate: '01/06/1990' }, { birthDate: 'Use the form YYYY-MM-DD' }],
-    ['a short password', { ...adult, password: 'short-pw' }, { password: 'At least 10 characters' }],
+    ['a short password', { ...adult, password: 'short-pw' }, { password: 'At least 12 characters' }],
     ['a password of 201 characters', { ...adult, password: 'x'.repeat(201) }, { password: 'At most 200 characters' }],
     ['a blank name', { ...adult, name: '   ' }, { name: 'Enter your name' }],
     ['a name of 121 characters', { ...adult, name: 'n'.repeat(121) }, { name: 'At most 120 characters' }],
@@ -114,7 +114,7 @@ describe('login, token and reset schemas', () => {
   it('ResetPasswordSchema needs a well-formed token and a long enough password', () => {
     const token = 'a'.repeat(43)
     expect(ResetPasswordSchema.safeParse({ token, password: 'long-enough-pw' }).success).toBe(true)
-    expect(fieldsOf(ResetPasswordSchema.safeParse({ token, password: 'short' }))).toEqual({ password: 'At least 10 characters' })
+    expect(fieldsOf(ResetPasswordSchema.safeParse({ token, password: 'short' }))).toEqual({ password: 'At least 12 characters' })
   })
 
   it('NewPasswordFormSchema wants the password twice, the same', () => {

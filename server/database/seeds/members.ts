@@ -47,9 +47,13 @@ function inventedMembers(): DemoPerson[] {
     if (i < 15) return { ...base, suspended: 'Filled above the event cap without a supervisor (demo record)' }
     if (i < 17) return { ...base, paidDays: -120, resigned: true }
     if (i < 20) {
+      // Juniors: two approved with their guardian's consent; the third signed up lately and waits
+      // for it (approval needs the consent, so it is not approved yet).
+      const consented = i !== 19
       return {
         ...base, age: 13 + (i - 17) * 2,
-        guardian: { name: `Guardian of ${first}`, email: `guardian.${first.toLowerCase()}@family.hoopwise.example`, consented: i !== 19 },
+        ...(consented ? {} : { paidDays: null, approved: false }),
+        guardian: { name: `Guardian of ${first}`, email: `guardian.${first.toLowerCase()}@family.hoopwise.example`, consented },
       }
     }
     if (i === 20) return { ...base, paidDays: 12 } // renewal due soon

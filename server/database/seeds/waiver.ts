@@ -24,11 +24,13 @@ export async function seedWaiver(ctx: SeedContext): Promise<void> {
   // Each acceptance carries the name the member typed: their own.
   const users = await User.findAll({ where: { email: [...ctx.memberIds.keys()] }, transaction })
   const nameOf = new Map(users.map(u => [u.email, u.name]))
+  const unconfirmed = new Set(users.filter(u => !u.emailVerifiedAt).map(u => u.email))
   let i = 0
   for (const [email, membershipId] of ctx.memberIds) {
     i += 1
-    // Everyone but every fifth invented member has accepted, so the "waiver missing" views have data.
-    if (!demoEmails.has(email) && i % 5 === 0) continue
+    // Everyone but every fifth invented member has accepted, so the "waiver missing" views have data;
+    // a member whose e-mail is unconfirmed cannot accept it yet.
+    if ((!demoEmails.has(email) && i % 5 === 0) || unconfirmed.has(email)) continue
     await WaiverAcceptance.findOrCreate({
       where: { waiverId: waiver.id, membershipId },
       defaults: { clubId, typedName: nameOf.get(email) ?? email, acceptedAt: new Date() },
