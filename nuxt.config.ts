@@ -1,8 +1,8 @@
 // Nuxt configuration: root layout (no app/ folder), Tailwind, Pinia, sealed-cookie sessions.
+import { SCRYPT_OPTIONS } from './server/services/password-hashing'
 
 /** A quoted keyword of a content security policy: q('self') → "'self'". */
 const q = (keyword: string) => `'${keyword}'`
-import { SCRYPT_OPTIONS } from './server/services/password-hashing'
 
 export default defineNuxtConfig({
   modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', 'nuxt-security'],
