@@ -56,6 +56,13 @@ describe('a borrowed name does not hide who acted', () => {
     expect(JSON.stringify(rows)).not.toContain(b.name)
   })
 
+  it('the database refuses a new row that copies a name beside the actor\'s id', async () => {
+    const m = await makeMember()
+    await expect(sql(`INSERT INTO audit_events (club_id, actor_membership_id, actor_name, action, subject_type)
+      SELECT club_id, id, 'Someone Else', 'test.named_actor', 'test' FROM memberships WHERE id = $1`, [m.memberId]))
+      .rejects.toThrow(/audit_events_actor_by_id/)
+  })
+
   it('audits no own contact edit, only an own name change', async () => {
     const m = await makeMember()
     const cookie = await signIn(inject('baseUrl'), m.email, m.password)
