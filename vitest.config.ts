@@ -37,6 +37,8 @@ export default defineConfig({
           testTimeout: 60_000,
           hookTimeout: 120_000,
           fileParallelism: false,
+          // A sign-in's password check alone can take over a second on a busy machine (scrypt at OWASP's cost).
+          expect: { poll: { timeout: 10_000 } },
         },
       },
     ],
