@@ -3,14 +3,13 @@
 import { spawn } from 'node:child_process'
 import { join } from 'node:path'
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
-import { Hash } from '@adonisjs/hash'
-import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { startAppServer } from '../../scripts/lib/processes.mjs'
 import { ROOT, TEST } from '../../scripts/lib/config.mjs'
 import { setUpDatabase, ADMIN_CREATE_HINT } from '../../scripts/lib/setup.mjs'
 import { api, sessionCookieOf } from '../support/http'
 import { sql } from '../support/db'
 import { testEnv, serverEnv } from '../support/test-env'
+import { createPasswordHash } from '../../server/services/password-hashing'
 
 const OWN = 'hoopwise_test_own_db'
 const PRODUCTION = 'hoopwise_test_production'
@@ -98,8 +97,8 @@ describe('npm start against a database of your own, then npm run admin:create', 
         c.tag_prefix AS "tagPrefix", c.time_zone AS "timeZone"
       FROM users u JOIN memberships m ON m.user_id = u.id JOIN clubs c ON c.id = m.club_id WHERE u.email = 'chair@club.example'`, [], own.ownerUrl)
     expect(row).toMatchObject({ roles: ['member', 'admin'], approved: true, tagPrefix: 'ERC', timeZone: 'Europe/Dublin' })
-    // The stored hash is one sign-in verifies (the same scrypt library nuxt-auth-utils uses).
-    const hasher = new Hash(new Scrypt({}))
+    // The stored hash is one sign-in verifies (the server's own scrypt parameters).
+    const hasher = createPasswordHash()
     expect(await hasher.verify(row!.passwordHash, PASSWORD)).toBe(true)
     expect(await hasher.verify(row!.passwordHash, `${PASSWORD}x`)).toBe(false)
     const audit = await sql<{ action: string }>('SELECT action FROM audit_events', [], own.ownerUrl)
