@@ -48,7 +48,7 @@ describe('the content security policy in the browser', () => {
         await route.fulfill({ response, body: html })
       })
       await page.goto(new URL('/login', inject('baseUrl')).href)
-      await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
+      await page.waitForFunction(() => (window as unknown as { useNuxtApp?: () => { isHydrating: boolean } }).useNuxtApp?.().isHydrating === false)
       expect(await page.evaluate(() => (window as unknown as { __injected?: boolean }).__injected)).toBeUndefined()
       await expect.poll(() => violations.length).toBeGreaterThan(0)
       expect(violations.join('\n')).toMatch(/script-src/)

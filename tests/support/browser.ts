@@ -21,7 +21,8 @@ export async function setupBrowser(): Promise<void> {
 export async function goTo(page: Page, path: string): Promise<void> {
   const violations = await watchPolicyViolations(page)
   await page.goto(new URL(path, inject('baseUrl')).href)
-  await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
+  // A function, not a string: the page's policy forbids eval, which a string predicate needs.
+  await page.waitForFunction(() => (window as unknown as { useNuxtApp?: () => { isHydrating: boolean } }).useNuxtApp?.().isHydrating === false)
   if (violations.length) throw new Error(`policy violations on ${path}:\n${violations.join('\n')}`)
 }
 
