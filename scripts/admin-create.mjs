@@ -73,6 +73,9 @@ async function choosePassword(fromStdin) {
   else throw new UsageError('No terminal to ask for a password: use --password-stdin or --send-link.')
   if (password.length < MIN_PASSWORD) throw new UsageError(`The password needs at least ${MIN_PASSWORD} characters.`)
   if (password.length > MAX_PASSWORD) throw new UsageError(`The password may have at most ${MAX_PASSWORD} characters.`)
+  // The same common-password list the sign-up and reset routes refuse.
+  const { isCommonPassword, COMMON_PASSWORD_MESSAGE } = await jiti.import('../server/services/passwords.ts')
+  if (isCommonPassword(password)) throw new UsageError(COMMON_PASSWORD_MESSAGE)
   return password
 }
 

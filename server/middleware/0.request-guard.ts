@@ -44,14 +44,18 @@ export default defineEventHandler(async (event) => {
 
 /**
  * 413 and close the connection after it: the rest of the body is never read. The socket is half-closed
- * once the answer is out and destroyed a moment later, so the client reads the 413 before the reset.
+ * once the answer is out and destroyed a while later (the body stays paused, unread, meanwhile), so a
+ * client busy writing — or a loaded machine — still reads the 413 before the reset.
  */
+/** How long a refused connection lingers, half-closed, before it is reset. */
+const LINGER_MS = 2000
+
 function refuseTooLarge(event: H3Event, maxBytes: number): never {
   const socket = event.node.req.socket
   setResponseHeader(event, 'connection', 'close')
   event.node.res.once('finish', () => {
     socket.end()
-    setTimeout(() => socket.destroy(), 200).unref()
+    setTimeout(() => socket.destroy(), LINGER_MS).unref()
   })
   throw createError({ statusCode: 413, statusMessage: 'Payload Too Large', message: new TooLargeError(maxBytes).message })
 }

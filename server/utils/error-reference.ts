@@ -13,14 +13,15 @@ function ormErrorOf(error: H3Error): BaseError | undefined {
 }
 
 /**
- * For a 5xx or any ORM error, the error the client gets instead: the same status, one plain message
+ * For an error no handler caught (h3 marks it `unhandled`, always a 500) or any ORM error, the error the client gets instead: the same status, one plain message
  * with a fresh reference, and nothing of the ORM's text, models or columns. The detail goes to `log`
  * as one JSON line with the reference. Any other error is returned as it is.
  */
 export function hideServerError(error: H3Error, event: Pick<H3Event, 'method' | 'path'>, log: (line: string) => void = console.error): H3Error {
   const status = error.statusCode ?? 500
   const orm = ormErrorOf(error)
-  if (status < 500 && !orm) return error
+  // A status the code chose on purpose (a 503 "busy", a 4xx) keeps its words; what nobody caught does not.
+  if (!orm && !error.unhandled) return error
   const reference = randomBytes(4).toString('hex').toUpperCase()
   const cause = (orm ?? (error.cause instanceof Error ? error.cause : error)) as Error & { parent?: { code?: string } }
   log(JSON.stringify({

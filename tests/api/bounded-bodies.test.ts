@@ -102,7 +102,8 @@ describe('errors from the database', () => {
     }
     const logged = JSON.parse(line!)
     expect(logged).toMatchObject({ level: 'error', reference, status: 500, method: 'POST', path: '/api/auth/login' })
-    expect(logged.error.message).toMatch(/relation "users" does not exist/)
+    // The first table the sign-in reads (its attempt counts, then the account) is out of reach.
+    expect(logged.error.message).toMatch(/relation "(rate_limits|users)" does not exist/)
   })
 })
 

@@ -86,6 +86,13 @@ describe('npm start against a database of your own, then npm run admin:create', 
     expect(await sql('SELECT id FROM users', [], own.ownerUrl)).toEqual([])
   })
 
+  it('admin:create refuses a common password, as sign-up does, and creates nothing', async () => {
+    const run = await adminCreate(['--email', 'common@club.example', '--club', 'Estuary Rocketry Club', '--password-stdin'], 'password1234\n')
+    expect(run.code).toBe(1)
+    expect(run.out).toContain('among the most common')
+    expect(await sql('SELECT id FROM users', [], own.ownerUrl)).toEqual([])
+  })
+
   it('admin:create makes the club, the account and an active admin who can sign in and act', async () => {
     const run = await adminCreate(['--email', 'Chair@Club.example', '--club', 'Estuary Rocketry Club', '--name', 'Rowan Chair',
       '--time-zone', 'Europe/Dublin', '--public-url', baseUrl, '--password-stdin'], `${PASSWORD}\n`)

@@ -47,7 +47,7 @@ describe('no ORM text reaches a response', () => {
 
   it.each([
     ['an unhandled ORM error (500)', () => createError(dbError('42P01'))],
-    ['a 503 a service threw', () => createError({ statusCode: 503, message: 'No club is set up yet' })],
+    ['an error no handler caught', () => Object.assign(createError(new Error('No club is set up yet')), { unhandled: true })],
   ])('replaces %s with one message and a reference, logged with the detail', async (_label, make) => {
     const { hideServerError } = await import('../../server/utils/error-reference')
     const lines: string[] = []
@@ -64,10 +64,13 @@ describe('no ORM text reaches a response', () => {
     expect(logged.error.message).toMatch(/pg 42P01|No club is set up yet/)
   })
 
-  it('leaves a client error alone and logs nothing', async () => {
+  it.each([
+    ['a client error', 422, 'Not allowed today'],
+    ['a 503 the code chose on purpose', 503, 'The server is busy checking other passwords. Try again in a moment.'],
+  ])('leaves %s alone and logs nothing', async (_label, statusCode, message) => {
     const { hideServerError } = await import('../../server/utils/error-reference')
     const lines: string[] = []
-    const error = createError({ statusCode: 422, message: 'Not allowed today' })
+    const error = createError({ statusCode, message })
     expect(hideServerError(error, { method: 'POST', path: '/x' }, line => lines.push(line))).toBe(error)
     expect(lines).toEqual([])
   })
