@@ -7,7 +7,7 @@ const colors = tailwindConfig.theme.extend.colors
 const WHITE = '#ffffff'
 
 describe('the contrast arithmetic', () => {
-  // Check values from ../shared/reference/check-values.md §8 (WCAG 2.2 definitions).
+  // Check values from the WCAG 2.2 definitions of relative luminance and contrast ratio.
   it.each([
     ['#767676', 4.542, true],
     ['#777777', 4.478, false],

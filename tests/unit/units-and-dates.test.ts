@@ -14,7 +14,7 @@ describe('the units store', () => {
     expect(PA_PER_BAR / PA_PER_PSI).toBeCloseTo(14.503774, 6)
   })
 
-  // Check values from ../shared/reference/check-values.md §4, source NIST SP 811 (2008) Appendix B.
+  // Check values from NIST SP 811 (2008), Appendix B (conversion factors).
   it.each([
     ['150 psi = 10.34 bar', () => psiToBar(150), 10.34, 2],
     ['10 bar = 145.0 psi', () => barToPsi(10), 145.0, 1],
