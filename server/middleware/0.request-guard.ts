@@ -42,17 +42,21 @@ export default defineEventHandler(async (event) => {
   }
 })
 
+/** How long a refused connection lingers, half-closed, before it is reset. */
+const LINGER_MS = 2000
+
 /**
  * 413 and close the connection after it: the rest of the body is never read. The socket is half-closed
  * once the answer is out and destroyed a while later (the body stays paused, unread, meanwhile), so a
  * client busy writing — or a loaded machine — still reads the 413 before the reset.
  */
-/** How long a refused connection lingers, half-closed, before it is reset. */
-const LINGER_MS = 2000
-
 function refuseTooLarge(event: H3Event, maxBytes: number): never {
   const socket = event.node.req.socket
   setResponseHeader(event, 'connection', 'close')
+  // Node's server would destroy the socket as soon as the answer is written ("Connection: close"),
+  // resetting it while the client is still sending, and a reset can swallow the 413 on its way: only
+  // half-close it then, and reset it after the linger.
+  socket.destroySoon = () => socket.end()
   event.node.res.once('finish', () => {
     socket.end()
     setTimeout(() => socket.destroy(), LINGER_MS).unref()
