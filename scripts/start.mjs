@@ -2,17 +2,13 @@
 // `npm start` (production build) and `npm run dev` (hot reload): installs what is missing, starts a
 // private PostgreSQL (unless NUXT_DATABASE_URL names a database of your own) and the mail catcher,
 // migrates, seeds the demo club on the private cluster only, then serves Hoopwise. Ctrl-C stops all.
-import { execFileSync, spawnSync } from 'node:child_process'
-import { existsSync } from 'node:fs'
+import { spawnSync } from 'node:child_process'
 import { join } from 'node:path'
-import { ROOT, DEV, loadDotEnv, ensureDir } from './lib/config.mjs'
+import { ROOT, DEV, loadDotEnv, ensureDir, ensureDependencies } from './lib/config.mjs'
 
 const dev = process.argv.includes('--dev')
 
-if (!existsSync(join(ROOT, 'node_modules', '.package-lock.json'))) {
-  console.log('• installing dependencies (npm ci)…')
-  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: ROOT, stdio: 'inherit' })
-}
+ensureDependencies()
 
 const { startPostgres } = await import('./lib/postgres.mjs')
 const { startMailCatcher, startProcess, waitForHttp } = await import('./lib/processes.mjs')

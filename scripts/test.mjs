@@ -5,7 +5,7 @@ import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { userInfo } from 'node:os'
-import { ROOT, TEST, ensureDir } from './lib/config.mjs'
+import { ROOT, TEST, ensureDir, ensureDependencies } from './lib/config.mjs'
 
 const CHROMIUM = '/usr/bin/chromium'
 // `npm test -- api` runs one stage after the set-up; `npm test -- api tests/api/sessions.test.ts` also
@@ -20,10 +20,7 @@ function run(label, command, args, env = {}) {
   if (result.status !== 0) throw new Error(`${label} failed (exit ${result.status ?? result.signal})`)
 }
 
-if (!existsSync(join(ROOT, 'node_modules', '.package-lock.json'))) {
-  console.log('• installing dependencies (npm ci)…')
-  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: ROOT, stdio: 'inherit' })
-}
+ensureDependencies()
 if (!existsSync(CHROMIUM)) {
   if (userInfo().uid !== 0) {
     console.error(`✖ Chromium is missing for the browser tests. Install it with: sudo apt-get install -y chromium`)

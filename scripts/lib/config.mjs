@@ -1,4 +1,5 @@
 // Ports, folders and environment shared by `npm start`, `npm run dev` and `npm test`.
+import { execFileSync } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { existsSync, readFileSync, writeFileSync, mkdirSync } from 'node:fs'
 import { dirname, join } from 'node:path'
@@ -19,6 +20,24 @@ export function loadDotEnv() {
     if (m) env[m[1]] = m[2].replace(/^["']|["']$/g, '')
   }
   return env
+}
+
+/**
+ * Installs the locked dependencies (`npm ci`) when node_modules is missing or no longer matches
+ * package-lock.json (a pull that added or moved a package), so the build never meets a stale tree.
+ */
+export function ensureDependencies() {
+  const installed = join(ROOT, 'node_modules', '.package-lock.json')
+  let current = existsSync(installed)
+  if (current) {
+    const locked = JSON.parse(readFileSync(join(ROOT, 'package-lock.json'), 'utf8')).packages ?? {}
+    const have = JSON.parse(readFileSync(installed, 'utf8')).packages ?? {}
+    // Optional packages for other platforms are never installed here; every other entry must match.
+    current = Object.entries(locked).every(([path, p]) => !path || p.optional || have[path]?.version === p.version)
+  }
+  if (current) return
+  console.log('• installing dependencies (npm ci)…')
+  execFileSync('npm', ['ci', '--no-audit', '--no-fund'], { cwd: ROOT, stdio: 'inherit' })
 }
 
 export function ensureDir(path) {
