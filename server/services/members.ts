@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { Club, Membership, User, Waiver } from '../models'
-import { membershipStatus, dateInZone, isJunior } from '../../shared/utils/membership-status'
+import { membershipStatus, isJunior } from '../../shared/utils/membership-status'
+import { dateInZone } from '../../shared/utils/dates'
 import { normaliseRoles } from '../../shared/utils/permissions'
 import { clubToday } from './clubs'
 import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '../../shared/types/dto'

@@ -11,8 +11,7 @@
  * - lapsed: past the grace period.
  * "Today" is the calendar date in the club's time zone, never the server's.
  */
-import { TZDate } from '@date-fns/tz'
-import { addDays, format } from 'date-fns'
+import { addCalendarDays, dateInZone } from './dates'
 
 export const MEMBERSHIP_STATUSES = ['pending', 'active', 'grace', 'lapsed', 'suspended', 'resigned'] as const
 export type MembershipStatus = typeof MEMBERSHIP_STATUSES[number]
@@ -36,17 +35,6 @@ export interface MembershipStatusInput {
   paidThrough: string | null
   suspendedAt?: Date | string | null
   resignedAt?: Date | string | null
-}
-
-/** The calendar date (YYYY-MM-DD) at `instant` in the IANA time zone `timeZone`. */
-export function dateInZone(instant: Date, timeZone: string): string {
-  return format(new TZDate(instant.getTime(), timeZone), 'yyyy-MM-dd')
-}
-
-/** `date` (YYYY-MM-DD) plus `days` calendar days, as YYYY-MM-DD. */
-export function addCalendarDays(date: string, days: number): string {
-  const [y, m, d] = date.split('-').map(Number)
-  return format(addDays(new Date(y!, m! - 1, d!), days), 'yyyy-MM-dd')
 }
 
 /** Derives the status at `now` (default: the current instant) for a club in `timeZone`. */
@@ -85,13 +73,4 @@ export const ADULT_AGE = 18
  */
 export function isJunior(birthDate: string | null | undefined, today: string): boolean {
   return !!birthDate && ageOn(birthDate, today) < ADULT_AGE
-}
-
-/** Calendar days from `from` to `to` (both YYYY-MM-DD); negative when `to` is earlier. */
-export function daysBetween(from: string, to: string): number {
-  const utc = (d: string) => {
-    const [y, m, day] = d.split('-').map(Number)
-    return Date.UTC(y!, m! - 1, day!)
-  }
-  return Math.round((utc(to) - utc(from)) / 86_400_000)
 }

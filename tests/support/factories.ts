@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto'
 import { createPasswordHash } from '../../server/services/password-hashing'
 import { sql } from './db'
-import { addCalendarDays, dateInZone } from '../../shared/utils/membership-status'
+import { addCalendarDays, dateInZone } from '../../shared/utils/dates'
 import type { Role } from '../../shared/utils/permissions'
 
 export const CLUB_TIME_ZONE = 'Europe/London'

@@ -1,8 +1,8 @@
 import { afterEach, describe, expect, it } from 'vitest'
 import {
-  addCalendarDays, ageOn, dateInZone, daysBetween, membershipStatus, statusKeepsRights,
-  type MembershipStatus, type MembershipStatusInput,
+  ageOn, membershipStatus, statusKeepsRights, type MembershipStatus, type MembershipStatusInput,
 } from '../../shared/utils/membership-status'
+import { addCalendarDays, dateInZone, daysBetween } from '../../shared/utils/dates'
 
 // A fixed instant: noon UTC on 15 June 2026 is 15 June in London (BST, UTC+1).
 const NOW = new Date('2026-06-15T12:00:00Z')

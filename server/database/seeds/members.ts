@@ -1,5 +1,5 @@
 import { Membership, User } from '../../models'
-import { addCalendarDays } from '../../../shared/utils/membership-status'
+import { addCalendarDays } from '../../../shared/utils/dates'
 import type { Role } from '../../../shared/utils/permissions'
 import type { SeedContext } from './context'
 import { DEMO_PASSWORD } from './context'
