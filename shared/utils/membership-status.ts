@@ -19,7 +19,7 @@ export type MembershipStatus = typeof MEMBERSHIP_STATUSES[number]
 export const MEMBERSHIP_STATUS_LABELS: Record<MembershipStatus, string> = {
   pending: 'Pending',
   active: 'Active',
-  grace: 'In grace',
+  grace: 'Grace period',
   lapsed: 'Lapsed',
   suspended: 'Suspended',
   resigned: 'Resigned',
