@@ -93,6 +93,5 @@ describe('authorization matrix', () => {
     const as = who === 'anon' ? undefined : route === 'POST /api/auth/logout' ? await signIn(inject('baseUrl'), DEMO[who], DEMO.password) : who
     const res = await api(path, { method, as, body: method === 'GET' ? undefined : {} })
     expect(res.status, `${route} as ${who}: ${JSON.stringify(res.body)?.slice(0, 200)}`).toBe(row[who])
-    expect(res.status).not.toBe(500)
   })
 })
