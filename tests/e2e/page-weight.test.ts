@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest'
+import { describe, expect, it, inject } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
 import type { Response } from 'playwright-core'
 import { setupBrowser, goTo } from '../support/browser'
@@ -58,5 +58,16 @@ describe('the weight of the sign-in page', () => {
     finally {
       await page.close()
     }
+  })
+
+  it('serves the gzip copy of a script to a client that accepts only gzip, and the plain file to one that accepts neither', async () => {
+    const html = await (await fetch(new URL('/login', inject('baseUrl')))).text()
+    const entry = new URL(/<script[^>]+type="module"[^>]+src="([^"]+)"/.exec(html)?.[1] ?? '', inject('baseUrl'))
+    const gzip = await fetch(entry, { headers: { 'accept-encoding': 'gzip' } })
+    const plain = await fetch(entry, { headers: { 'accept-encoding': 'identity' } })
+    expect(gzip.headers.get('content-encoding')).toBe('gzip')
+    expect(plain.headers.get('content-encoding')).toBeNull()
+    // The same script either way (fetch undoes the gzip).
+    expect(await gzip.text()).toBe(await plain.text())
   })
 })
