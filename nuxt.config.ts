@@ -64,6 +64,8 @@ export default defineNuxtConfig({
   nitro: {
     experimental: { tasks: true },
     scheduledTasks: { '*/10 * * * *': ['notices:run'] },
+    // The build writes .br and .gz beside each public asset; Nitro serves the one the browser accepts.
+    compressPublicAssets: { gzip: true, brotli: true },
   },
   typescript: { strict: true },
   // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
