@@ -22,7 +22,7 @@ const APP_PORT = TEST.spareBase + 17
 const SMTP_PORT = TEST.spareBase + 16
 
 const FLOOR = '/api/_auth/session'
-// [path, share of the floor it must reach (null: no target)]. The directory at 10 000 members may
+// [path, share of the floor it must reach (null: no target)]. The directory at 10 000 members must
 // reach a quarter of the floor; every other signed-in read route half of it.
 const routes = adminMemberId => [
   ['/api/health', null],
@@ -98,8 +98,8 @@ try {
   for (const [path, target] of list) {
     if (WARM_UP_SECONDS > 0) await drive(baseUrl, path, cookie, WARM_UP_SECONDS)
     const measured = await drive(baseUrl, path, cookie, SECONDS)
-    results.push({ path, target, ...measured })
-    console.log(`  ${('GET ' + path).padEnd(34)} ${measured.rps.toFixed(0).padStart(6)} req/s`)
+    results.push({ path, label: path.replace(adminMemberId, ':id'), target, ...measured })
+    console.log(`  ${('GET ' + path.replace(adminMemberId, ':id')).padEnd(34)} ${measured.rps.toFixed(0).padStart(6)} req/s`)
   }
 
   const floor = results.find(r => r.path === FLOOR).rps
@@ -110,7 +110,7 @@ try {
     const ratio = r.rps / floor
     const met = r.target === null ? '' : ratio >= r.target && r.errors === 0 ? `≥ ${r.target}× met` : `≥ ${r.target}× MISSED`
     if (r.target !== null && !met.endsWith('met')) missed++
-    console.log(`${('GET ' + r.path).padEnd(34)} ${r.rps.toFixed(0).padStart(7)} ${r.p95.toFixed(1).padStart(7)} `
+    console.log(`${('GET ' + r.label).padEnd(34)} ${r.rps.toFixed(0).padStart(7)} ${r.p95.toFixed(1).padStart(7)} `
       + `${String(r.errors).padStart(7)} ${ratio.toFixed(2).padStart(8)}  ${met}`)
     if (r.errors) console.log(`    non-2xx or failed: ${r.detail}`)
   }
