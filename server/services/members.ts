@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize'
-import { Club, Membership, User, Waiver } from '../models'
+import { Club, Membership, User } from '../models'
 import { membershipStatus, isJunior } from '../../shared/utils/membership-status'
 import { dateInZone } from '../../shared/utils/dates'
 import { normaliseRoles } from '../../shared/utils/permissions'
@@ -8,18 +8,21 @@ import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '../../shar
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
 
-/** The member's position against the club's current waiver version. */
+/** The member's position against the club's current waiver version (one statement). */
 export async function waiverStanding(clubId: string, membershipId: string): Promise<WaiverStandingDto> {
-  useDb()
-  const current = await Waiver.findOne({ where: { clubId }, order: [['version', 'DESC']] })
-  const [latest] = await useDb().query<{ version: number, accepted_at: Date }>(`
-    SELECT w.version, a.accepted_at FROM waiver_acceptances a JOIN waivers w ON w.id = a.waiver_id
-    WHERE a.membership_id = :membershipId ORDER BY w.version DESC LIMIT 1`, { replacements: { membershipId }, type: QueryTypes.SELECT })
+  const [row] = await useDb().query<{ current: number | null, accepted: number | null, accepted_at: Date | null }>(`
+    SELECT (SELECT max(version) FROM waivers WHERE club_id = :clubId) AS current, latest.version AS accepted, latest.accepted_at
+    FROM (SELECT 1) one LEFT JOIN LATERAL (
+      SELECT w.version, a.accepted_at FROM waiver_acceptances a JOIN waivers w ON w.id = a.waiver_id
+      WHERE a.membership_id = :membershipId ORDER BY w.version DESC LIMIT 1) latest ON true`,
+  { replacements: { clubId, membershipId }, type: QueryTypes.SELECT })
+  const current = row?.current ?? null
+  const accepted = row?.accepted ?? null
   return {
-    currentVersion: current?.version ?? null,
-    acceptedVersion: latest?.version ?? null,
-    acceptedAt: iso(latest?.accepted_at),
-    current: !current || latest?.version === current.version,
+    currentVersion: current,
+    acceptedVersion: accepted,
+    acceptedAt: iso(row?.accepted_at),
+    current: current === null || accepted === current,
   }
 }
 
@@ -41,6 +44,27 @@ export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone
   }
 }
 
+/** The full member DTO of a membership already loaded with its account and club. */
+export async function toMemberDto(m: Membership, user: User, club: Club): Promise<MemberDto> {
+  return {
+    ...toMemberListItem({ ...m.get(), user }, club),
+    approvedAt: iso(m.approvedAt),
+    suspendedAt: iso(m.suspendedAt),
+    suspendedReason: m.suspendedReason,
+    resignedAt: iso(m.resignedAt),
+    emailVerified: !!user.emailVerifiedAt,
+    birthDate: m.birthDate,
+    guardianName: m.guardianName,
+    guardianEmail: m.guardianEmail,
+    guardianConsentAt: iso(m.guardianConsentAt),
+    phone: m.phone,
+    emergencyContactName: m.emergencyContactName,
+    emergencyContactPhone: m.emergencyContactPhone,
+    unitPreference: m.unitPreference,
+    waiver: await waiverStanding(club.id, m.id),
+  }
+}
+
 /**
  * The full member DTO for membership `membershipId` in club `clubId`, or null when it is not there
  * (callers answer 404: missing and "not in your club" look the same).
@@ -52,21 +76,5 @@ export async function loadMemberDto(clubId: string, membershipId: string): Promi
     include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],
   })
   if (!m?.user || !m.club) return null
-  return {
-    ...toMemberListItem(m as Membership & { user: User }, m.club),
-    approvedAt: iso(m.approvedAt),
-    suspendedAt: iso(m.suspendedAt),
-    suspendedReason: m.suspendedReason,
-    resignedAt: iso(m.resignedAt),
-    emailVerified: !!m.user.emailVerifiedAt,
-    birthDate: m.birthDate,
-    guardianName: m.guardianName,
-    guardianEmail: m.guardianEmail,
-    guardianConsentAt: iso(m.guardianConsentAt),
-    phone: m.phone,
-    emergencyContactName: m.emergencyContactName,
-    emergencyContactPhone: m.emergencyContactPhone,
-    unitPreference: m.unitPreference,
-    waiver: await waiverStanding(clubId, m.id),
-  }
+  return toMemberDto(m, m.user, m.club)
 }

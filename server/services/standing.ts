@@ -1,6 +1,6 @@
 import type { Club } from '../models'
 import { Membership, User } from '../models'
-import { loadMemberDto } from './members'
+import { loadMemberDto, toMemberDto } from './members'
 import { DUES_RENEWAL_NOTICE_DAYS } from '../../shared/utils/membership-status'
 import { addCalendarDays, daysBetween, formatCalendarDate as long } from '../../shared/utils/dates'
 import { clubToday } from './clubs'
@@ -69,8 +69,8 @@ export function attentionFor(member: MemberDto, club: ClubDto, today: string): A
 
 /** "My standing" for the signed-in member: the member DTO, the club, today there, and what needs attention. */
 export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
-  const member = await loadMemberDto(actor.club.id, actor.membership.id)
-  if (!member) return null
+  // The actor was loaded with its account and club for this request: no second read of them.
+  const member = await toMemberDto(actor.membership, actor.user, actor.club)
   const club = toClubDto(actor.club)
   const today = clubToday(club)
   return {
