@@ -1,5 +1,5 @@
 // Nuxt configuration: root layout (no app/ folder), Tailwind, Pinia, sealed-cookie sessions.
-import { SCRYPT_OPTIONS } from './server/services/password-hashing'
+import { SCRYPT_OPTIONS } from './server/services/accounts/password-hashing'
 
 /** A quoted keyword of a content security policy: q('self') → "'self'". */
 const q = (keyword: string) => `'${keyword}'`

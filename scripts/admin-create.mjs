@@ -74,7 +74,7 @@ async function choosePassword(fromStdin) {
   if (password.length < MIN_PASSWORD) throw new UsageError(`The password needs at least ${MIN_PASSWORD} characters.`)
   if (password.length > MAX_PASSWORD) throw new UsageError(`The password may have at most ${MAX_PASSWORD} characters.`)
   // The same common-password list the sign-up and reset routes refuse.
-  const { isCommonPassword, COMMON_PASSWORD_MESSAGE } = await jiti.import('../server/services/passwords.ts')
+  const { isCommonPassword, COMMON_PASSWORD_MESSAGE } = await jiti.import('../server/services/accounts/passwords.ts')
   if (isCommonPassword(password)) throw new UsageError(COMMON_PASSWORD_MESSAGE)
   return password
 }

@@ -77,7 +77,7 @@ try {
   }
 
   const jiti = createJiti(import.meta.url)
-  const { directoryStatements } = await jiti.import('../server/services/member-directory.ts')
+  const { directoryStatements } = await jiti.import('../server/services/members/directory.ts')
   const { MemberDirectoryQuerySchema } = await jiti.import('../shared/schemas/member.ts')
   const { rows: [club] } = await client.query(`SELECT id, time_zone AS "timeZone", grace_days AS "graceDays" FROM clubs WHERE tag_prefix = 'SRG'`)
   const first = directoryStatements(club, MemberDirectoryQuerySchema.parse({}))

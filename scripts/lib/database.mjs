@@ -11,7 +11,7 @@ const jiti = createJiti(import.meta.url)
 export function makePasswordHasher() {
   let hash
   return async (plain) => {
-    hash ??= jiti.import('../../server/services/password-hashing.ts').then(m => m.createPasswordHash())
+    hash ??= jiti.import('../../server/services/accounts/password-hashing.ts').then(m => m.createPasswordHash())
     return (await hash).make(plain)
   }
 }

@@ -6,8 +6,8 @@ import { ActionToken, Club, Membership, Notice, User } from '../models'
 import { addCalendarDays, dateInZone } from '../../shared/utils/dates'
 import { recordAudit } from '../services/audit'
 import { clubBaseUrl } from '../services/clubs'
-import { composeNotice } from '../services/notice-render'
-import { hashToken, TOKEN_LIFETIME_HOURS } from '../services/tokens'
+import { composeNotice } from '../services/notices'
+import { hashToken, TOKEN_LIFETIME_HOURS } from '../services/accounts'
 
 export interface FirstAdminInput {
   email: string

@@ -1,4 +1,4 @@
-import { runNoticeJob } from '../services/notice-job'
+import { runNoticeJob } from '../services/notices'
 
 /**
  * Runs the notice job once shortly after boot, so reminders due while the server was down go out

@@ -1,4 +1,4 @@
-import { revokeSessions, loadLiveSession } from '../services/sessions'
+import { revokeSessions, loadLiveSession } from '../services/accounts'
 import { normaliseRoles } from '../../shared/utils/permissions'
 
 /**

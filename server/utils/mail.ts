@@ -1,5 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer'
-import { smtpTlsDecision, type TransportTimeouts } from '../services/notice-policy'
+import { smtpTlsDecision, type TransportTimeouts } from '../services/notices'
 
 let transporter: Transporter | undefined
 

@@ -1,8 +1,8 @@
 import type { H3Event } from 'h3'
 import type { Transaction } from 'sequelize'
 import { RateLimiterPostgres, RateLimiterRes } from 'rate-limiter-flexible'
-import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice } from '../services/known-device'
-import { backoffSeconds, emailKey, logSignIn, waitWords, type SignInLimit } from '../services/sign-in-limits'
+import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice } from '../services/accounts'
+import { backoffSeconds, emailKey, logSignIn, waitWords, type SignInLimit } from '../services/accounts'
 import { addressGroup, clientAddressFrom, parseTrustedProxies, type TrustedRange } from './client-address'
 
 // Every count lives in PostgreSQL (rate-limiter-flexible's own store, table `rate_limits` from

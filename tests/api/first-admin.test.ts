@@ -9,7 +9,7 @@ import { setUpDatabase, ADMIN_CREATE_HINT } from '../../scripts/lib/setup.mjs'
 import { api, sessionCookieOf } from '../support/http'
 import { sql } from '../support/db'
 import { testEnv, serverEnv } from '../support/test-env'
-import { createPasswordHash } from '../../server/services/password-hashing'
+import { createPasswordHash } from '../../server/services/accounts/password-hashing'
 
 const OWN = 'hoopwise_test_own_db'
 const PRODUCTION = 'hoopwise_test_production'

@@ -10,7 +10,7 @@ import { postFrom } from '../support/from-address'
 import { serverEnv } from '../support/test-env'
 import { startAppServer } from '../../scripts/lib/processes.mjs'
 import { ROOT, TEST } from '../../scripts/lib/config.mjs'
-import { COMMON_PASSWORD_MESSAGE } from '../../server/services/passwords'
+import { COMMON_PASSWORD_MESSAGE } from '../../server/services/accounts/passwords'
 
 // New passwords (12 characters, not a common one), the scrypt parameters of stored hashes, the
 // re-hash of an old one at sign-in, and the cap on hashes running at once (on a server of its own).

@@ -3,7 +3,7 @@ import { api } from '../support/http'
 import { sql } from '../support/db'
 import { makeMember } from '../support/factories'
 import { testEnv } from '../support/test-env'
-import { deriveOptOutKey, optOutToken } from '../../server/services/notice-opt-out'
+import { deriveOptOutKey, optOutToken } from '../../server/services/notices/opt-out'
 
 // The request guard (server/middleware/0.request-guard.ts) and the headers every answer carries.
 const WRONG_SIGN_IN = JSON.stringify({ email: 'nobody-guard@test.hoopwise.example', password: 'not-the-password-1' })

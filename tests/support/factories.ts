@@ -1,7 +1,7 @@
 // Test data straight into the test database, with overrides. Dates are relative to today in the
 // demo club's time zone, so the tests mean the same thing whatever day they run.
 import { randomUUID } from 'node:crypto'
-import { createPasswordHash } from '../../server/services/password-hashing'
+import { createPasswordHash } from '../../server/services/accounts/password-hashing'
 import { sql } from './db'
 import { addCalendarDays, dateInZone } from '../../shared/utils/dates'
 import type { Role } from '../../shared/utils/permissions'

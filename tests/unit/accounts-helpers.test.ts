@@ -1,8 +1,8 @@
 import { describe, it, expect } from 'vitest'
 import { safeNextPath } from '../../shared/utils/redirect'
-import { clubBaseUrl, clubToday } from '../../server/services/clubs'
-import { TOKEN_LIFETIME_HOURS, lifetimeWords, tokenLifetimeWords } from '../../server/services/tokens'
-import { NOTICE_KINDS, type NoticeVars } from '../../server/services/notice-kinds'
+import { clubBaseUrl, clubToday } from '../../server/services/clubs/clubs'
+import { TOKEN_LIFETIME_HOURS, lifetimeWords, tokenLifetimeWords } from '../../server/services/accounts/tokens'
+import { NOTICE_KINDS, type NoticeVars } from '../../server/services/notices/kinds'
 
 describe('safeNextPath (where sign-in goes next)', () => {
   it.each([

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest'
-import { isLoopbackHost, leaseSecondsFor, smtpTlsDecision } from '../../server/services/notice-policy'
+import { isLoopbackHost, leaseSecondsFor, smtpTlsDecision } from '../../server/services/notices/delivery'
 
 describe('SMTP requires TLS unless the host is this machine', () => {
   it.each([

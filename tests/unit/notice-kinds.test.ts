@@ -1,8 +1,8 @@
 import { describe, it, expect } from 'vitest'
-import { NOTICE_KINDS, isNoticeKind, longDate, optionalNoticeKinds, type NoticeKindName, type NoticeVars } from '../../server/services/notice-kinds'
-import { composeNotice } from '../../server/services/notice-render'
-import { deriveOptOutKey, optOutToken, optOutUrl, oneClickOptOutUrl, readOptOutToken } from '../../server/services/notice-opt-out'
-import { backoffSeconds, classifySendError, statusAfterFailure, MAX_ATTEMPTS } from '../../server/services/notice-policy'
+import { NOTICE_KINDS, isNoticeKind, longDate, optionalNoticeKinds, type NoticeKindName, type NoticeVars } from '../../server/services/notices/kinds'
+import { composeNotice } from '../../server/services/notices/render'
+import { deriveOptOutKey, optOutToken, optOutUrl, oneClickOptOutUrl, readOptOutToken } from '../../server/services/notices/opt-out'
+import { backoffSeconds, classifySendError, statusAfterFailure, MAX_ATTEMPTS } from '../../server/services/notices/delivery'
 
 const BASE = 'https://rockets.saltmarsh.example'
 const KINDS = Object.keys(NOTICE_KINDS) as NoticeKindName[]

@@ -4,8 +4,8 @@ import { countOf, matchCount } from '../../shared/utils/counts'
 import { readQueryFilters, writeQueryFilters } from '../../shared/utils/query-filters'
 import { OutboxQuerySchema } from '../../shared/schemas/notice'
 import { MemberDirectoryQuerySchema } from '../../shared/schemas/member'
-import { NOTICE_KINDS } from '../../server/services/notice-kinds'
-import { attentionFor } from '../../server/services/standing'
+import { NOTICE_KINDS } from '../../server/services/notices/kinds'
+import { attentionFor } from '../../server/services/members/standing'
 import type { ClubDto, MemberDto } from '../../shared/types/dto'
 
 describe('paging arithmetic', () => {

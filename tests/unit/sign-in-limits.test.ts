@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { addressGroup, clientAddressFrom, parseTrustedProxies, type TrustedRange } from '../../server/utils/client-address'
-import { backoffSeconds, emailKey, signInLogLine, waitWords } from '../../server/services/sign-in-limits'
-import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice, KNOWN_DEVICE_MAX_ENTRIES } from '../../server/services/known-device'
+import { backoffSeconds, emailKey, signInLogLine, waitWords } from '../../server/services/accounts/sign-in-limits'
+import { deriveKnownDeviceKey, isKnownDevice, rememberKnownDevice, KNOWN_DEVICE_MAX_ENTRIES } from '../../server/services/accounts/known-device'
 
 describe('addressGroup (the key a client address is counted under)', () => {
   it.each([

@@ -1,5 +1,5 @@
 import { AuditQuerySchema } from '../../../shared/schemas/audit'
-import { listAuditEvents } from '../../services/audit-trail'
+import { listAuditEvents } from '../../services/audit'
 
 /** The audit trail (audit.read): paged, newest first, filtered by action and subject. */
 export default defineEventHandler(async (event) => {

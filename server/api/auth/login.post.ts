@@ -1,6 +1,5 @@
 import { LoginSchema } from '../../../shared/schemas/auth'
-import { signIn } from '../../services/accounts'
-import { startSession } from '../../services/sessions'
+import { signIn, startSession } from '../../services/accounts'
 
 /**
  * Sign in with e-mail and password. 401 for any mismatch (never says whether the e-mail exists); 429

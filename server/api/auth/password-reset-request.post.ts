@@ -1,7 +1,6 @@
 import { ResetRequestSchema } from '../../../shared/schemas/auth'
 import type { MessageDto } from '../../../shared/types/accounts'
-import { requestPasswordResetAfterReply } from '../../services/accounts'
-import { tokenLifetimeWords } from '../../services/tokens'
+import { requestPasswordResetAfterReply, tokenLifetimeWords } from '../../services/accounts'
 
 /** The one answer, whether or not an account uses the e-mail: it must never reveal which. */
 const RESET_REQUESTED: MessageDto = {

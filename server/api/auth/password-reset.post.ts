@@ -1,7 +1,6 @@
 import { ResetPasswordSchema } from '../../../shared/schemas/auth'
 import type { MessageDto } from '../../../shared/types/accounts'
-import { resetPassword } from '../../services/accounts'
-import { withServerPassword } from '../../services/passwords'
+import { resetPassword, withServerPassword } from '../../services/accounts'
 
 // The route's schema: the shared one with the server's password field (also refuses common passwords).
 const ResetPasswordBody = withServerPassword(ResetPasswordSchema)

@@ -1,9 +1,7 @@
 import { signupSchemaFor } from '../../../shared/schemas/auth'
 import type { SignupResultDto } from '../../../shared/types/accounts'
-import { signUp } from '../../services/accounts'
+import { signUp, startSession, serverPasswordField } from '../../services/accounts'
 import { clubToday, homeClub } from '../../services/clubs'
-import { startSession } from '../../services/sessions'
-import { serverPasswordField } from '../../services/passwords'
 
 /**
  * Join the club: creates the account and a pending membership, e-mails a verification link (and a

@@ -1,4 +1,4 @@
-import { loadStanding } from '../../services/standing'
+import { loadStanding } from '../../services/members'
 
 /** My standing: the signed-in member's record, the club, today in its time zone and what needs attention. */
 export default defineEventHandler(async (event) => {

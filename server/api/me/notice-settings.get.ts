@@ -1,4 +1,4 @@
-import { noticeSettings } from '../../services/notice-preferences'
+import { noticeSettings } from '../../services/notices'
 
 /** The signed-in member's optional e-mails, each on or off. */
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,5 @@
 import { NoticeSettingsSchema } from '../../../shared/schemas/notice'
-import { saveNoticeSettings } from '../../services/notice-preferences'
+import { saveNoticeSettings } from '../../services/notices'
 
 /** Sets which optional e-mails the signed-in member has switched off. 422 for a safety kind. */
 export default defineEventHandler(async (event) => {

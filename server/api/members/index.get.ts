@@ -1,5 +1,5 @@
 import { MemberDirectoryQuerySchema } from '../../../shared/schemas/member'
-import { listMembers } from '../../services/member-directory'
+import { listMembers } from '../../services/members'
 
 /** The member directory (members.read): server-side paging, sorting, status/role filters and search. */
 export default defineEventHandler(async (event) => {

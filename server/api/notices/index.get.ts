@@ -1,5 +1,5 @@
 import { OutboxQuerySchema } from '../../../shared/schemas/notice'
-import { listOutbox } from '../../services/notice-outbox'
+import { listOutbox } from '../../services/notices'
 
 /** The outbox: the club's notices, newest first, paged and filtered by status and kind. */
 export default defineEventHandler(async (event) => {

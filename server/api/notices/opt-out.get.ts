@@ -1,5 +1,5 @@
 import { OptOutSchema } from '../../../shared/schemas/notice'
-import { previewOptOut } from '../../services/notice-preferences'
+import { previewOptOut } from '../../services/notices'
 
 /** What an e-mailed opt-out link would switch off (no sign-in). 404 for a forged or altered link. */
 export default defineEventHandler(async (event) => {

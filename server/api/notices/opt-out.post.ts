@@ -1,5 +1,5 @@
 import { OptOutSchema } from '../../../shared/schemas/notice'
-import { applyOptOut } from '../../services/notice-preferences'
+import { applyOptOut } from '../../services/notices'
 
 /**
  * Opts a member out of one optional kind from a signed link, without signing in. The token comes in

@@ -1,4 +1,4 @@
-import { runNoticeJob } from '../../services/notice-job'
+import { runNoticeJob } from '../../services/notices'
 import { recordAudit } from '../../services/audit'
 
 // A request sends at most this many; a larger backlog goes on in the background.

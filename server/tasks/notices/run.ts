@@ -1,4 +1,4 @@
-import { runNoticeJob } from '../../services/notice-job'
+import { runNoticeJob } from '../../services/notices'
 
 /** Scheduled in nuxt.config.ts (every 10 minutes): reminder scans for every club, then the queue. */
 export default defineTask({

@@ -1,5 +1,5 @@
 import { IdParamSchema } from '../../../../shared/schemas/common'
-import { revokeSessions } from '../../../services/sessions'
+import { revokeSessions } from '../../../services/accounts'
 
 /**
  * Signs out one of my sessions (another device, or this one — then the cookie is cleared too).

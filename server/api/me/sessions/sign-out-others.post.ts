@@ -1,6 +1,6 @@
 import { SignOutOthersSchema } from '../../../../shared/schemas/auth'
 import type { SessionsEndedDto } from '../../../../shared/types/accounts'
-import { revokeSessions } from '../../../services/sessions'
+import { revokeSessions } from '../../../services/accounts'
 
 /** Signs out every other session of my account, keeping this one; the body confirms it ({ confirm: true }). */
 export default defineEventHandler(async (event): Promise<SessionsEndedDto> => {

@@ -1,4 +1,4 @@
-import { NOTICE_KINDS, type NoticeKind, type NoticeKindName, type NoticeVars, type RenderedNotice } from './notice-kinds'
+import { NOTICE_KINDS, type NoticeKind, type NoticeKindName, type NoticeVars, type RenderedNotice } from './kinds'
 
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 

@@ -1,7 +1,7 @@
 import { QueryTypes, type Transaction } from 'sequelize'
-import type { NoticeSettingsDto, OptOutPreviewDto } from '../../shared/types/dto'
-import { NOTICE_KINDS, isNoticeKind, optionalNoticeKinds, type NoticeKind } from './notice-kinds'
-import { readOptOutToken } from './notice-opt-out'
+import type { NoticeSettingsDto, OptOutPreviewDto } from '../../../shared/types/dto'
+import { NOTICE_KINDS, isNoticeKind, optionalNoticeKinds, type NoticeKind } from './kinds'
+import { readOptOutToken } from './opt-out'
 import { optOutSecret } from './notices'
 
 const NOT_OPTIONAL = { code: 'NOT_OPTIONAL', message: 'Safety and account notices cannot be switched off.' }

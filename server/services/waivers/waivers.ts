@@ -1,11 +1,11 @@
 import { QueryTypes, UniqueConstraintError } from 'sequelize'
-import { Waiver } from '../models'
-import { recordAudit } from './audit'
-import { waiverStanding } from './members'
-import type { Actor } from '../utils/auth'
-import type { WaiverAccept, WaiverPublish } from '../../shared/schemas/waiver'
-import { WAIVER_NEEDS_EMAIL } from '../../shared/utils/approval'
-import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../shared/types/dto'
+import { Waiver } from '../../models'
+import { recordAudit } from '../audit'
+import { waiverStanding } from '../members'
+import type { Actor } from '../../utils/auth'
+import type { WaiverAccept, WaiverPublish } from '../../../shared/schemas/waiver'
+import { WAIVER_NEEDS_EMAIL } from '../../../shared/utils/approval'
+import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../../shared/types/dto'
 
 interface WaiverRow {
   id: string

@@ -1,6 +1,6 @@
-import type { NoticeRunDto } from '../../shared/types/dto'
-import { runNoticeScans } from './notice-scans'
-import { runNoticeQueue } from './notice-queue'
+import type { NoticeRunDto } from '../../../shared/types/dto'
+import { runNoticeScans } from './scans'
+import { runNoticeQueue } from './queue'
 
 /**
  * The notice job: the reminder scans, then the queue. Shared by the scheduled task (every club) and

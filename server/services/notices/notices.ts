@@ -1,7 +1,7 @@
 import { QueryTypes, type Transaction } from 'sequelize'
-import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './notice-kinds'
-import { composeNotice } from './notice-render'
-import { deriveOptOutKey, optOutUrl } from './notice-opt-out'
+import { NOTICE_KINDS, type NoticeKindName, type NoticeVars } from './kinds'
+import { composeNotice } from './render'
+import { deriveOptOutKey, optOutUrl } from './opt-out'
 
 let optOutKey: string | undefined
 

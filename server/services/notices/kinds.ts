@@ -2,7 +2,7 @@
  * Every kind of e-mail Hoopwise sends, in one place: how it renders and whether a member may opt
  * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
  */
-import { tokenLifetimeWords } from './tokens'
+import { tokenLifetimeWords } from '../accounts'
 
 export interface NoticeVars {
   clubName: string

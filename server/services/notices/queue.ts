@@ -1,10 +1,10 @@
 import { QueryTypes } from 'sequelize'
-import { sendMail, transportTimeouts } from '../utils/mail'
-import { NOTICE_KINDS, isNoticeKind } from './notice-kinds'
-import { oneClickOptOutUrl } from './notice-opt-out'
+import { sendMail, transportTimeouts } from '../../utils/mail'
+import { NOTICE_KINDS, isNoticeKind } from './kinds'
+import { oneClickOptOutUrl } from './opt-out'
 import { SCRUB_LINKS_SQL, optOutSecret } from './notices'
-import { clubBaseUrl } from './clubs'
-import { backoffSeconds, classifySendError, leaseSecondsFor, statusAfterFailure } from './notice-policy'
+import { clubBaseUrl } from '../clubs'
+import { backoffSeconds, classifySendError, leaseSecondsFor, statusAfterFailure } from './delivery'
 
 /*
  * Exactly once, also when the mail server is slow:

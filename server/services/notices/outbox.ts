@@ -1,10 +1,10 @@
 import { QueryTypes } from 'sequelize'
-import type { NoticeDto, OutboxPageDto } from '../../shared/types/dto'
-import type { OutboxQuery } from '../../shared/schemas/notice'
-import type { Actor } from '../utils/auth'
-import { recordAudit } from './audit'
-import { NOTICE_KINDS, noticeKindLabel } from './notice-kinds'
-import { kickNoticeQueue } from './notice-queue'
+import type { NoticeDto, OutboxPageDto } from '../../../shared/types/dto'
+import type { OutboxQuery } from '../../../shared/schemas/notice'
+import type { Actor } from '../../utils/auth'
+import { recordAudit } from '../audit'
+import { NOTICE_KINDS, noticeKindLabel } from './kinds'
+import { kickNoticeQueue } from './queue'
 import { ONE_TIME_LINK_KINDS } from './notices'
 
 interface NoticeRow {

@@ -1,10 +1,10 @@
 import { QueryTypes } from 'sequelize'
-import type { Club } from '../models'
-import type { MemberDirectoryQuery } from '../../shared/schemas/member'
-import type { MemberListItemDto, Paged } from '../../shared/types/dto'
-import { clubToday } from './clubs'
+import type { Club } from '../../models'
+import type { MemberDirectoryQuery } from '../../../shared/schemas/member'
+import type { MemberListItemDto, Paged } from '../../../shared/types/dto'
+import { clubToday } from '../clubs'
 import { toMemberListItem } from './members'
-import { statusPredicates } from './membership-status-sql'
+import { statusPredicates } from './status-sql'
 
 // The status filter: the one SQL copy of the status function, with this file's bind parameters.
 const STATUS_SQL = statusPredicates({ today: '$today', graceDays: '$graceDays' })

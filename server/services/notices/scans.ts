@@ -1,8 +1,8 @@
 import { QueryTypes } from 'sequelize'
-import { Club } from '../models'
-import { DUES_RENEWAL_NOTICE_DAYS } from '../../shared/utils/membership-status'
-import { addCalendarDays } from '../../shared/utils/dates'
-import { clubBaseUrl, clubToday } from './clubs'
+import { Club } from '../../models'
+import { DUES_RENEWAL_NOTICE_DAYS } from '../../../shared/utils/membership-status'
+import { addCalendarDays } from '../../../shared/utils/dates'
+import { clubBaseUrl, clubToday } from '../clubs'
 import { enqueueNotice } from './notices'
 
 interface DueMember { id: string, paid_through: string, email: string, name: string }

@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize'
-import { AuditEvent } from '../models'
-import type { Actor } from '../utils/auth'
+import { AuditEvent } from '../../models'
+import type { Actor } from '../../utils/auth'
 
 /** What acts when no member does: the labels stored for rows without an actor id (never a person's name). */
 export const NON_MEMBER_ACTORS = { system: 'System', guardian: 'Guardian (e-mailed link)' } as const

@@ -1,6 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto'
 import { QueryTypes, type Transaction } from 'sequelize'
-import type { TokenPurpose } from '../models/ActionToken'
+import type { TokenPurpose } from '../../models/ActionToken'
 
 /** How long each kind of e-mailed link stays usable, in hours. */
 export const TOKEN_LIFETIME_HOURS: Record<TokenPurpose, number> = {

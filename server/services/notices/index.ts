@@ -1,0 +1,11 @@
+// The notices domain's public surface: routes and other domains import from here, never from its files.
+export * from './delivery'
+export * from './job'
+export * from './kinds'
+export * from './notices'
+export * from './opt-out'
+export * from './outbox'
+export * from './preferences'
+export * from './queue'
+export * from './render'
+export * from './scans'
