@@ -1,0 +1,180 @@
+import { randomUUID } from 'node:crypto'
+import { beforeAll, describe, expect, it } from 'vitest'
+import { api } from '../../support/http'
+import { sql } from '../../support/db'
+import { makeMember, CLUB_TIME_ZONE, type MadeMember } from '../../support/factories'
+import { MEMBERSHIP_STATUSES, membershipStatus, type MembershipStatus } from '../../../shared/utils/membership-status'
+import type { MemberListItemDto, Paged } from '../../../shared/types/dto'
+
+type Page = Paged<MemberListItemDto>
+
+/** Every member this file made whose name or e-mail contains `tag`, in one call (all fit one page). */
+async function listTagged(tag: string, query: Record<string, string | number> = {}): Promise<Page> {
+  const res = await api<Page>('/api/members', { as: 'admin', query: { q: tag, pageSize: 100, ...query } })
+  expect(res.status).toBe(200)
+  return res.body
+}
+
+describe('GET /api/members: paging, sorting, filters and search', () => {
+  const tag = `dir${randomUUID().slice(0, 8)}`
+  const made: (MadeMember & { paidDays: number | null })[] = []
+  // Names sort differently from e-mails and from the order of creation, so each sort shows itself.
+  const people: { first: string, mail: string, paidDays: number | null, roles?: ('instructor' | 'admin')[] }[] = [
+    { first: 'Delta', mail: 'b', paidDays: 40 },
+    { first: 'alpha', mail: 'f', paidDays: -3, roles: ['instructor'] },
+    { first: 'Echo', mail: 'a', paidDays: null },
+    { first: 'Bravo', mail: 'e', paidDays: 400, roles: ['instructor'] },
+    { first: 'charlie', mail: 'c', paidDays: 10 },
+    { first: 'Foxtrot', mail: 'd', paidDays: -90 },
+    { first: 'Golf', mail: 'g', paidDays: 40 },
+  ]
+
+  beforeAll(async () => {
+    for (const p of people) {
+      const m = await makeMember({
+        name: `${p.first} ${tag}`,
+        email: `${p.mail}-${tag}@test.hoopwise.example`,
+        paidDays: p.paidDays,
+        roles: p.roles,
+      })
+      made.push({ ...m, paidDays: p.paidDays })
+    }
+  })
+
+  it('pages on the server: total, page sizes and no overlap between pages', async () => {
+    const pages = await Promise.all([1, 2, 3].map(page => listTagged(tag, { pageSize: 3, page })))
+    expect(pages.map(p => p.total)).toEqual([7, 7, 7])
+    expect(pages.map(p => p.items.length)).toEqual([3, 3, 1])
+    expect(pages[0]!.page).toBe(1)
+    expect(pages[0]!.pageSize).toBe(3)
+    const ids = pages.flatMap(p => p.items.map(i => i.id))
+    expect(new Set(ids).size).toBe(7)
+    expect(new Set(ids)).toEqual(new Set(made.map(m => m.memberId)))
+    const beyond = await listTagged(tag, { pageSize: 3, page: 4 })
+    expect(beyond).toMatchObject({ total: 7, items: [] })
+  })
+
+  it('sorts by name both ways, case-insensitively, and desc is the exact reverse', async () => {
+    const asc = (await listTagged(tag, { sort: 'name', dir: 'asc' })).items.map(i => i.name.split(' ')[0])
+    expect(asc).toEqual(['alpha', 'Bravo', 'charlie', 'Delta', 'Echo', 'Foxtrot', 'Golf'])
+    const desc = (await listTagged(tag, { sort: 'name', dir: 'desc' })).items.map(i => i.name.split(' ')[0])
+    expect(desc).toEqual([...asc].reverse())
+  })
+
+  it('sorts by e-mail both ways', async () => {
+    const asc = (await listTagged(tag, { sort: 'email', dir: 'asc' })).items.map(i => i.email[0])
+    expect(asc).toEqual(['a', 'b', 'c', 'd', 'e', 'f', 'g'])
+    const desc = (await listTagged(tag, { sort: 'email', dir: 'desc' })).items.map(i => i.email[0])
+    expect(desc).toEqual(['g', 'f', 'e', 'd', 'c', 'b', 'a'])
+  })
+
+  it('sorts by paid-through both ways with never-paid last and ties broken by id', async () => {
+    const asc = (await listTagged(tag, { sort: 'paidThrough', dir: 'asc' })).items
+    const desc = (await listTagged(tag, { sort: 'paidThrough', dir: 'desc' })).items
+    const dates = (items: MemberListItemDto[]) => items.map(i => i.paidThrough)
+    const paid = dates(asc).slice(0, 6) as string[]
+    expect(paid).toEqual([...paid].sort())
+    expect(dates(asc)[6]).toBeNull()
+    expect(dates(desc).slice(0, 6)).toEqual([...paid].reverse())
+    expect(dates(desc)[6]).toBeNull()
+    // Delta and Golf share a date: their order follows the id, reversed with the direction.
+    const tie = (items: MemberListItemDto[]) => items.filter(i => /^(Delta|Golf) /.test(i.name)).map(i => i.id)
+    expect(tie(asc)).toEqual([...tie(asc)].sort())
+    expect(tie(desc)).toEqual([...tie(asc)].reverse())
+  })
+
+  it('sorts by joining order both ways', async () => {
+    const asc = (await listTagged(tag, { sort: 'joined' })).items.map(i => i.id)
+    expect(asc).toEqual(made.map(m => m.memberId))
+    const desc = (await listTagged(tag, { sort: 'joined', dir: 'desc' })).items.map(i => i.id)
+    expect(desc).toEqual([...asc].reverse())
+  })
+
+  it('filters by role and by status', async () => {
+    const instructors = await listTagged(tag, { role: 'instructor' })
+    expect(instructors.items.map(i => i.name.split(' ')[0]).sort()).toEqual(['Bravo', 'alpha'])
+    expect(instructors.items.every(i => i.roles.includes('instructor'))).toBe(true)
+    const grace = await listTagged(tag, { status: 'grace' })
+    expect(grace.items.map(i => i.name.split(' ')[0])).toEqual(['alpha'])
+    const pending = await listTagged(tag, { status: 'pending', role: 'member' })
+    expect(pending.items.map(i => i.name.split(' ')[0])).toEqual(['Echo'])
+    const none = await listTagged(tag, { status: 'active', role: 'admin' })
+    expect(none).toMatchObject({ total: 0, items: [] })
+  })
+
+  it('searches names and e-mails case-insensitively as a substring, wildcards taken literally', async () => {
+    expect((await listTagged(tag.toUpperCase())).total).toBe(7)
+    const byName = await listTagged(`XTROT ${tag}`)
+    expect(byName.items.map(i => i.name)).toEqual([`Foxtrot ${tag}`])
+    const byEmail = await listTagged(`e-${tag}@TEST`)
+    expect(byEmail.items.map(i => i.email)).toEqual([`e-${tag}@test.hoopwise.example`])
+    expect((await listTagged(`${tag}%`)).total).toBe(0)
+    expect((await listTagged(`_${tag}`)).total).toBe(0)
+  })
+
+  it.each([
+    [{ pageSize: 101 }, 'pageSize'],
+    [{ pageSize: 0 }, 'pageSize'],
+    [{ page: 0 }, 'page'],
+    [{ sort: 'age' }, 'sort'],
+    [{ dir: 'sideways' }, 'dir'],
+    [{ status: 'dormant' }, 'status'],
+    [{ role: 'captain' }, 'role'],
+    [{ q: 'x'.repeat(101) }, 'q'],
+  ])('refuses %o with 400 and a message for the field', async (query, field) => {
+    const res = await api('/api/members', { as: 'admin', query })
+    expect(res.status).toBe(400)
+    expect(res.body.data.fields[field]).toBeTruthy()
+  })
+
+  it('is for members.read only: 401 signed out, 403 for a member, 200 for an instructor', async () => {
+    expect((await api('/api/members')).status).toBe(401)
+    expect((await api('/api/members', { as: 'member' })).status).toBe(403)
+    expect((await api('/api/members', { as: 'instructor', query: { q: tag } })).body.total).toBe(7)
+  })
+})
+
+describe('the status filter\'s SQL agrees with membershipStatus()', () => {
+  const tag = `sts${randomUUID().slice(0, 8)}`
+  let graceDays = 30
+  const made: MadeMember[] = []
+
+  beforeAll(async () => {
+    const [club] = await sql<{ grace_days: number }>(`SELECT grace_days FROM clubs WHERE tag_prefix = 'SRG'`)
+    graceDays = club!.grace_days
+    const cases = [
+      { paidDays: 300 }, { paidDays: 1 }, { paidDays: 0 }, // active, the last one paid through today
+      { paidDays: -1 }, { paidDays: -Math.floor(graceDays / 2) }, { paidDays: -graceDays }, // grace, to its last day
+      { paidDays: -graceDays - 1 }, { paidDays: -400 }, // lapsed from the day after grace
+      { paidDays: null }, { paidDays: null, approved: false }, // pending
+      { paidDays: 100, suspendedReason: 'Test suspension' }, { paidDays: null, suspendedReason: 'Test suspension' },
+      { paidDays: -graceDays - 1, resigned: true, suspendedReason: 'Suspended and resigned' }, // suspended wins
+      { paidDays: 100, resigned: true }, { paidDays: -5, resigned: true }, { paidDays: null, resigned: true },
+    ]
+    for (const [i, c] of cases.entries()) made.push(await makeMember({ ...c, name: `Status ${tag} ${String(i).padStart(2, '0')}` }))
+  })
+
+  it('puts every member in exactly the status the TypeScript function derives, boundary days included', async () => {
+    const rows = await sql<{ id: string, paid_through: string | null, suspended_at: Date | null, resigned_at: Date | null }>(
+      `SELECT id, paid_through::text, suspended_at, resigned_at FROM memberships WHERE id = ANY($1::uuid[])`, [made.map(m => m.memberId)])
+    const expected = new Map(rows.map(r => [r.id, membershipStatus(
+      { paidThrough: r.paid_through, suspendedAt: r.suspended_at, resignedAt: r.resigned_at },
+      { timeZone: CLUB_TIME_ZONE, graceDays },
+    )]))
+    const found = new Map<string, MembershipStatus>()
+    for (const status of MEMBERSHIP_STATUSES) {
+      const page = await listTagged(tag, { status })
+      for (const item of page.items) {
+        expect(found.has(item.id), `${item.name} in two filters`).toBe(false)
+        found.set(item.id, status)
+        expect(item.status).toBe(status) // the row's status is derived by the TS function
+      }
+    }
+    expect(Object.fromEntries(found)).toEqual(Object.fromEntries(expected))
+    // Every status has at least one member here, so each SQL branch was exercised.
+    expect(new Set(found.values())).toEqual(new Set(MEMBERSHIP_STATUSES))
+    const counts = (s: MembershipStatus) => [...found.values()].filter(v => v === s).length
+    expect([counts('active'), counts('grace'), counts('lapsed'), counts('pending'), counts('suspended'), counts('resigned')])
+      .toEqual([3, 3, 2, 2, 3, 3])
+  })
+})
