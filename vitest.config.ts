@@ -1,14 +1,20 @@
 import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vitest/config'
 
+// Nuxt's aliases as the suites see them: `~~` (the project root, for stores and composables) and
+// `#shared` (how server code imports the root `shared/` folder).
+const alias = {
+  '~~': fileURLToPath(new URL('.', import.meta.url)),
+  '#shared': fileURLToPath(new URL('./shared', import.meta.url)),
+}
+
 // Three suites. `unit` needs nothing running; `api` and `e2e` share one built server started by
 // tests/support/global-setup.ts (PostgreSQL and the mail catcher are started by scripts/test.mjs).
 export default defineConfig({
   test: {
     projects: [
       {
-        // Stores and composables import shared code through Nuxt's `~~` alias (the project root).
-        resolve: { alias: { '~~': fileURLToPath(new URL('.', import.meta.url)) } },
+        resolve: { alias },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],
@@ -16,6 +22,7 @@ export default defineConfig({
         },
       },
       {
+        resolve: { alias },
         test: {
           name: 'api',
           include: ['tests/api/**/*.test.ts'],
@@ -29,6 +36,7 @@ export default defineConfig({
         },
       },
       {
+        resolve: { alias },
         test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],

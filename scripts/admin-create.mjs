@@ -6,7 +6,7 @@
 import { randomBytes } from 'node:crypto'
 import { parseArgs } from 'node:util'
 import { createJiti } from 'jiti'
-import { DEV, loadDotEnv } from './lib/config.mjs'
+import { DEV, JITI_OPTIONS, loadDotEnv } from './lib/config.mjs'
 import { APP_ROLE, OWNER_ROLE } from './lib/postgres.mjs'
 import { makePasswordHasher, prepareDatabase } from './lib/database.mjs'
 import { databaseUrls } from './lib/setup.mjs'
@@ -26,7 +26,7 @@ const USAGE = `Usage: npm run admin:create -- --email you@club.example --club "C
 The database is NUXT_DATABASE_OWNER_URL (or NUXT_DATABASE_URL) from the environment or .env;
 without either, the private cluster of a running \`npm start\`.`
 
-const jiti = createJiti(import.meta.url)
+const jiti = createJiti(import.meta.url, JITI_OPTIONS)
 
 /** Reads one line from the terminal without echoing it. */
 function askHidden(question) {

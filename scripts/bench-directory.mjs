@@ -4,7 +4,7 @@
 // plus 10 000 invented members, the built server, N timed requests per query shape (p50/p95), and
 // EXPLAIN ANALYZE of the statements the route runs (built by the same service function).
 import { createJiti } from 'jiti'
-import { TEST } from './lib/config.mjs'
+import { JITI_OPTIONS, TEST } from './lib/config.mjs'
 import { ensureBuild, signInDemoAdmin, startBenchStack } from './lib/bench.mjs'
 
 const MEMBERS = Number(process.env.BENCH_MEMBERS ?? 10_000)
@@ -76,7 +76,7 @@ try {
     console.log(`${label.padEnd(38)} ${String(total).padStart(6)} ${p50.toFixed(1).padStart(8)} ${p95.toFixed(1).padStart(8)}`)
   }
 
-  const jiti = createJiti(import.meta.url)
+  const jiti = createJiti(import.meta.url, JITI_OPTIONS)
   const { directoryStatements } = await jiti.import('../server/services/members/directory.ts')
   const { MemberDirectoryQuerySchema } = await jiti.import('../shared/schemas/member.ts')
   const { rows: [club] } = await client.query(`SELECT id, time_zone AS "timeZone", grace_days AS "graceDays" FROM clubs WHERE tag_prefix = 'SRG'`)

@@ -70,3 +70,6 @@ export const TEST = {
   /** Ports from here up to +19 are for tests that start services of their own. */
   spareBase: 3110 + offset,
 }
+
+/** jiti's options for loading server code from the scripts: the server's `#shared` alias (Nuxt's) too. */
+export const JITI_OPTIONS = { alias: { '#shared': join(ROOT, 'shared') } }

@@ -1,8 +1,9 @@
 // Migrations and the demo seed, run from the scripts (outside the server) through jiti, which loads
 // the same TypeScript modules the server is built from.
 import { createJiti } from 'jiti'
+import { JITI_OPTIONS } from './config.mjs'
 
-const jiti = createJiti(import.meta.url)
+const jiti = createJiti(import.meta.url, JITI_OPTIONS)
 
 /**
  * A function hashing a password with THE server's scrypt parameters (server/services/password-hashing.ts,

@@ -3,7 +3,7 @@
 import { randomBytes } from 'node:crypto'
 import { col, fn, where, type Sequelize } from 'sequelize'
 import { ActionToken, Club, Membership, Notice, User } from '../models'
-import { addCalendarDays, dateInZone } from '../../shared/utils/dates'
+import { addCalendarDays, dateInZone } from '#shared/utils/dates'
 import { recordAudit } from '../services/audit'
 import { clubBaseUrl } from '../services/clubs'
 import { composeNotice } from '../services/notices'

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize'
-import { ClubPolicySchema, type ClubPolicy } from '../../shared/schemas/club'
+import { ClubPolicySchema, type ClubPolicy } from '#shared/schemas/club'
 
 /** A club: the tenant every other row belongs to. */
 export class Club extends Model {

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize'
-import type { Role } from '../../shared/utils/permissions'
+import type { Role } from '#shared/utils/permissions'
 import type { User } from './User'
 import type { Club } from './Club'
 

@@ -1,5 +1,5 @@
 import { revokeSessions, loadLiveSession } from '../services/accounts'
-import { normaliseRoles } from '../../shared/utils/permissions'
+import { normaliseRoles } from '#shared/utils/permissions'
 
 /**
  * The session cookie's two hooks. `fetch` (`GET /api/_auth/session`, which the server-rendered page

@@ -1,8 +1,8 @@
 import type { H3Event } from 'h3'
 import type { Club, Membership, User } from '../models'
 import { loadLiveSession } from '../services/accounts'
-import { rolesCan, normaliseRoles, type Capability, type Role } from '../../shared/utils/permissions'
-import { membershipStatus, statusKeepsRights, type MembershipStatus } from '../../shared/utils/membership-status'
+import { rolesCan, normaliseRoles, type Capability, type Role } from '#shared/utils/permissions'
+import { membershipStatus, statusKeepsRights, type MembershipStatus } from '#shared/utils/membership-status'
 
 export interface Actor {
   user: User

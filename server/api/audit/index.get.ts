@@ -1,4 +1,4 @@
-import { AuditQuerySchema } from '../../../shared/schemas/audit'
+import { AuditQuerySchema } from '#shared/schemas/audit'
 import { listAuditEvents } from '../../services/audit'
 
 /** The audit trail (audit.read): paged, newest first, filtered by action and subject. */

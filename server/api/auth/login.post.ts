@@ -1,4 +1,4 @@
-import { LoginSchema } from '../../../shared/schemas/auth'
+import { LoginSchema } from '#shared/schemas/auth'
 import { signIn, startSession } from '../../services/accounts'
 
 /**

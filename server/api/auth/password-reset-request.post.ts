@@ -1,5 +1,5 @@
-import { ResetRequestSchema } from '../../../shared/schemas/auth'
-import type { MessageDto } from '../../../shared/types/accounts'
+import { ResetRequestSchema } from '#shared/schemas/auth'
+import type { MessageDto } from '#shared/types/accounts'
 import { requestPasswordResetAfterReply, tokenLifetimeWords } from '../../services/accounts'
 
 /** The one answer, whether or not an account uses the e-mail: it must never reveal which. */

@@ -1,5 +1,5 @@
-import { ResetPasswordSchema } from '../../../shared/schemas/auth'
-import type { MessageDto } from '../../../shared/types/accounts'
+import { ResetPasswordSchema } from '#shared/schemas/auth'
+import type { MessageDto } from '#shared/types/accounts'
 import { resetPassword, withServerPassword } from '../../services/accounts'
 
 // The route's schema: the shared one with the server's password field (also refuses common passwords).

@@ -1,4 +1,4 @@
-import type { MessageDto } from '../../../shared/types/accounts'
+import type { MessageDto } from '#shared/types/accounts'
 import { resendVerification } from '../../services/accounts'
 
 /** E-mail the signed-in member a fresh verification link. 401 signed out; 422 already verified; 429 (with Retry-After) too many for the account or its address. */

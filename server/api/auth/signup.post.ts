@@ -1,5 +1,5 @@
-import { signupSchemaFor } from '../../../shared/schemas/auth'
-import type { SignupResultDto } from '../../../shared/types/accounts'
+import { signupSchemaFor } from '#shared/schemas/auth'
+import type { SignupResultDto } from '#shared/types/accounts'
 import { signUp, startSession, serverPasswordField } from '../../services/accounts'
 import { clubToday, homeClub } from '../../services/clubs'
 

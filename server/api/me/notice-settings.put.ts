@@ -1,4 +1,4 @@
-import { NoticeSettingsSchema } from '../../../shared/schemas/notice'
+import { NoticeSettingsSchema } from '#shared/schemas/notice'
 import { saveNoticeSettings } from '../../services/notices'
 
 /** Sets which optional e-mails the signed-in member has switched off. 422 for a safety kind. */

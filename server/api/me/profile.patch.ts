@@ -1,4 +1,4 @@
-import { ProfileSchema } from '../../../shared/schemas/member'
+import { ProfileSchema } from '#shared/schemas/member'
 import { updateProfile } from '../../services/members'
 import { renameInSession } from '../../services/accounts'
 

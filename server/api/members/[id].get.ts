@@ -1,4 +1,4 @@
-import { IdParamSchema } from '../../../shared/schemas/common'
+import { IdParamSchema } from '#shared/schemas/common'
 import { loadMemberDto } from '../../services/members'
 
 /** One member's page: for officers with members.read, or the member themselves. 404 outside the club. */

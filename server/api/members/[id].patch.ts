@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../shared/schemas/common'
-import { MemberEditSchema } from '../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MemberEditSchema } from '#shared/schemas/member'
 import { editMember } from '../../services/members'
 
 /** Edits a member's details (members.manage); the audit event keeps before/after of changed fields (429 when a new guardian e-mail has had its e-mails for the day). */

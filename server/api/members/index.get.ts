@@ -1,4 +1,4 @@
-import { MemberDirectoryQuerySchema } from '../../../shared/schemas/member'
+import { MemberDirectoryQuerySchema } from '#shared/schemas/member'
 import { listMembers } from '../../services/members'
 
 /** The member directory (members.read): server-side paging, sorting, status/role filters and search. */

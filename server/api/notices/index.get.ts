@@ -1,4 +1,4 @@
-import { OutboxQuerySchema } from '../../../shared/schemas/notice'
+import { OutboxQuerySchema } from '#shared/schemas/notice'
 import { listOutbox } from '../../services/notices'
 
 /** The outbox: the club's notices, newest first, paged and filtered by status and kind. */

@@ -1,4 +1,4 @@
-import { OptOutSchema } from '../../../shared/schemas/notice'
+import { OptOutSchema } from '#shared/schemas/notice'
 import { applyOptOut } from '../../services/notices'
 
 /**

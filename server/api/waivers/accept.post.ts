@@ -1,4 +1,4 @@
-import { WaiverAcceptSchema } from '../../../shared/schemas/waiver'
+import { WaiverAcceptSchema } from '#shared/schemas/waiver'
 import { acceptWaiver } from '../../services/waivers'
 
 /**

@@ -1,4 +1,4 @@
-import { WaiverPublishSchema } from '../../../shared/schemas/waiver'
+import { WaiverPublishSchema } from '#shared/schemas/waiver'
 import { publishWaiver } from '../../services/waivers'
 
 /** Publish a new waiver version (policy.edit): everyone is asked to accept again. 201; 409 on a race. */

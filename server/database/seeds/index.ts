@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize'
-import { dateInZone } from '../../../shared/utils/dates'
+import { dateInZone } from '#shared/utils/dates'
 import type { SeedContext } from './context'
 import { DEMO_TIME_ZONE } from './context'
 import { seedClub } from './club'

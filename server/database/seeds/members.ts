@@ -1,6 +1,6 @@
 import { Membership, User } from '../../models'
-import { addCalendarDays } from '../../../shared/utils/dates'
-import type { Role } from '../../../shared/utils/permissions'
+import { addCalendarDays } from '#shared/utils/dates'
+import type { Role } from '#shared/utils/permissions'
 import type { SeedContext } from './context'
 import { DEMO_PASSWORD } from './context'
 

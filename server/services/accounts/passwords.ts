@@ -1,6 +1,6 @@
 import type { z } from 'zod'
 import { dictionary } from '@zxcvbn-ts/language-common'
-import { passwordField } from '../../../shared/schemas/auth'
+import { passwordField } from '#shared/schemas/auth'
 import { createPasswordHash } from './password-hashing'
 import { Semaphore, SemaphoreFullError } from './semaphore'
 

@@ -2,10 +2,10 @@ import type { H3Event } from 'h3'
 import { QueryTypes, type ModelStatic, type Model, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../../models'
 import type { SessionRevokeReason } from '../../models/Session'
-import { normaliseRoles } from '../../../shared/utils/permissions'
-import { describeUserAgent } from '../../../shared/utils/user-agent'
-import type { SessionUser } from '../../../shared/types/session'
-import type { SessionDto } from '../../../shared/types/accounts'
+import { normaliseRoles } from '#shared/utils/permissions'
+import { describeUserAgent } from '#shared/utils/user-agent'
+import type { SessionUser } from '#shared/types/session'
+import type { SessionDto } from '#shared/types/accounts'
 
 /** What a new session shows: the member it signs in. */
 export interface SessionStart {

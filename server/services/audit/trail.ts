@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
-import type { AuditQuery } from '../../../shared/schemas/audit'
-import type { AuditEventDto, Paged } from '../../../shared/types/dto'
+import type { AuditQuery } from '#shared/schemas/audit'
+import type { AuditEventDto, Paged } from '#shared/types/dto'
 
 interface AuditRow {
   id: string

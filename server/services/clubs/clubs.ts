@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize'
 import { Club } from '../../models'
-import { dateInZone } from '../../../shared/utils/dates'
+import { dateInZone } from '#shared/utils/dates'
 
 /**
  * The club sign-ups join: for now the one club of this deployment (the first created).

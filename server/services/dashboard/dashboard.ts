@@ -1,8 +1,8 @@
 import { QueryTypes } from 'sequelize'
 import { actorCan, type Actor } from '../../utils/auth'
 import { loadStanding, statusCaseSql } from '../members'
-import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '../../../shared/utils/membership-status'
-import type { DashboardDto, StandingDto } from '../../../shared/types/dto'
+import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '#shared/utils/membership-status'
+import type { DashboardDto, StandingDto } from '#shared/types/dto'
 
 type Card = DashboardDto['cards'][number]
 

@@ -1,10 +1,10 @@
 import { QueryTypes } from 'sequelize'
 import { Club, Membership, User } from '../../models'
-import { membershipStatus, isJunior } from '../../../shared/utils/membership-status'
-import { dateInZone } from '../../../shared/utils/dates'
-import { normaliseRoles } from '../../../shared/utils/permissions'
+import { membershipStatus, isJunior } from '#shared/utils/membership-status'
+import { dateInZone } from '#shared/utils/dates'
+import { normaliseRoles } from '#shared/utils/permissions'
 import { clubToday } from '../clubs'
-import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '../../../shared/types/dto'
+import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '#shared/types/dto'
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
 

@@ -1,12 +1,12 @@
 import type { Club } from '../../models'
 import { Membership, User } from '../../models'
 import { loadMemberDto, toMemberDto } from './members'
-import { DUES_RENEWAL_NOTICE_DAYS } from '../../../shared/utils/membership-status'
-import { addCalendarDays, daysBetween, formatCalendarDate as long } from '../../../shared/utils/dates'
+import { DUES_RENEWAL_NOTICE_DAYS } from '#shared/utils/membership-status'
+import { addCalendarDays, daysBetween, formatCalendarDate as long } from '#shared/utils/dates'
 import { clubToday } from '../clubs'
 import { changedFields, recordAudit } from '../audit'
-import type { Profile } from '../../../shared/schemas/member'
-import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '../../../shared/types/dto'
+import type { Profile } from '#shared/schemas/member'
+import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '#shared/types/dto'
 import type { Actor } from '../../utils/auth'
 
 /** The club as the member's screens see it. */

@@ -1,4 +1,4 @@
-import type { MembershipStatus } from '../../../shared/utils/membership-status'
+import type { MembershipStatus } from '#shared/utils/membership-status'
 
 /**
  * The SQL mirror of `membershipStatus()` in shared/utils/membership-status.ts, over `memberships m`

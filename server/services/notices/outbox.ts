@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
-import type { NoticeDto, OutboxPageDto } from '../../../shared/types/dto'
-import type { OutboxQuery } from '../../../shared/schemas/notice'
+import type { NoticeDto, OutboxPageDto } from '#shared/types/dto'
+import type { OutboxQuery } from '#shared/schemas/notice'
 import type { Actor } from '../../utils/auth'
 import { recordAudit } from '../audit'
 import { NOTICE_KINDS, noticeKindLabel } from './kinds'

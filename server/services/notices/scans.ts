@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import { Club } from '../../models'
-import { DUES_RENEWAL_NOTICE_DAYS } from '../../../shared/utils/membership-status'
-import { addCalendarDays } from '../../../shared/utils/dates'
+import { DUES_RENEWAL_NOTICE_DAYS } from '#shared/utils/membership-status'
+import { addCalendarDays } from '#shared/utils/dates'
 import { clubBaseUrl, clubToday } from '../clubs'
 import { enqueueNotice } from './notices'
 

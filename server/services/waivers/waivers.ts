@@ -3,9 +3,9 @@ import { Waiver } from '../../models'
 import { recordAudit } from '../audit'
 import { waiverStanding } from '../members'
 import type { Actor } from '../../utils/auth'
-import type { WaiverAccept, WaiverPublish } from '../../../shared/schemas/waiver'
-import { WAIVER_NEEDS_EMAIL } from '../../../shared/utils/approval'
-import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../../shared/types/dto'
+import type { WaiverAccept, WaiverPublish } from '#shared/schemas/waiver'
+import { WAIVER_NEEDS_EMAIL } from '#shared/utils/approval'
+import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '#shared/types/dto'
 
 interface WaiverRow {
   id: string

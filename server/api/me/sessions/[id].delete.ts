@@ -1,4 +1,4 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
+import { IdParamSchema } from '#shared/schemas/common'
 import { revokeSessions } from '../../../services/accounts'
 
 /**

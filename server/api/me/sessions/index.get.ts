@@ -1,4 +1,4 @@
-import type { SessionDto } from '../../../../shared/types/accounts'
+import type { SessionDto } from '#shared/types/accounts'
 import { listSessions } from '../../../services/accounts'
 
 /** My sessions that have not ended (device, address, last seen), the one this request came with marked. */

@@ -1,5 +1,5 @@
-import { SignOutOthersSchema } from '../../../../shared/schemas/auth'
-import type { SessionsEndedDto } from '../../../../shared/types/accounts'
+import { SignOutOthersSchema } from '#shared/schemas/auth'
+import type { SessionsEndedDto } from '#shared/types/accounts'
 import { revokeSessions } from '../../../services/accounts'
 
 /** Signs out every other session of my account, keeping this one; the body confirms it ({ confirm: true }). */

@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { MembershipActionSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MembershipActionSchema } from '#shared/schemas/member'
 import { changeMembership } from '../../../services/members'
 
 /** Approves a never-approved pending sign-up (members.manage) and e-mails the member; 422 otherwise. */

@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { MembershipActionSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MembershipActionSchema } from '#shared/schemas/member'
 import { resendGuardianConsent } from '../../../services/members'
 
 /** E-mails a junior's guardian a fresh consent link (members.manage) with a reason; 422 when no consent is due; 429 past the guardian's e-mails for the day. */

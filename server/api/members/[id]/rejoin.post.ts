@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { MembershipActionSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MembershipActionSchema } from '#shared/schemas/member'
 import { changeMembership } from '../../../services/members'
 
 /** Clears a resignation so the member can pay again (members.manage); 422 when not resigned. */

@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { MembershipActionSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MembershipActionSchema } from '#shared/schemas/member'
 import { changeMembership } from '../../../services/members'
 
 /** Marks a membership resigned (members.manage) with a reason; 422 when already resigned, or your own. */

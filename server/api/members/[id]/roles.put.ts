@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { RolesSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { RolesSchema } from '#shared/schemas/member'
 import { assignRoles } from '../../../services/members'
 
 /** Sets a member's roles (roles.assign) with a reason; 'member' is always kept; never your own (422). */

@@ -1,5 +1,5 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
-import { MembershipActionSchema } from '../../../../shared/schemas/member'
+import { IdParamSchema } from '#shared/schemas/common'
+import { MembershipActionSchema } from '#shared/schemas/member'
 import { changeMembership } from '../../../services/members'
 
 /** Suspends a membership (members.manage) with a reason; 422 when already suspended or resigned, or your own. */

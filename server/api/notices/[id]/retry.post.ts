@@ -1,4 +1,4 @@
-import { IdParamSchema } from '../../../../shared/schemas/common'
+import { IdParamSchema } from '#shared/schemas/common'
 import { retryNotice } from '../../../services/notices'
 
 /** Puts a failed (or skipped) notice back in the queue, due now. 409 once it has been sent. */
