@@ -1,5 +1,5 @@
 import { LoginSchema } from '#shared/schemas/auth'
-import { signIn, startSession } from '../../services/accounts'
+import { signIn } from '../../services/accounts'
 
 /**
  * Sign in with e-mail and password. 401 for any mismatch (never says whether the e-mail exists); 429

@@ -1,6 +1,6 @@
 import { ResetRequestSchema } from '#shared/schemas/auth'
 import type { MessageDto } from '#shared/types/accounts'
-import { requestPasswordResetAfterReply, tokenLifetimeWords } from '../../services/accounts'
+import { requestPasswordReset, tokenLifetimeWords } from '../../services/accounts'
 
 /** The one answer, whether or not an account uses the e-mail: it must never reveal which. */
 const RESET_REQUESTED: MessageDto = {
@@ -15,6 +15,10 @@ const RESET_REQUESTED: MessageDto = {
 export default defineEventHandler(async (event): Promise<MessageDto> => {
   const { email } = await validBody(event, ResetRequestSchema)
   await withRetryAfter(event, () => countResetRequest(requestAddress(event)))
-  requestPasswordResetAfterReply(event, email)
+  // Not awaited: a known and an unknown e-mail are answered in the same time, so the reply's timing
+  // never reveals an account. A failure is logged (the member can ask again).
+  event.waitUntil(requestPasswordReset(email).catch((error: unknown) => {
+    console.error('[accounts] a password-reset request failed:', error)
+  }))
   return RESET_REQUESTED
 })

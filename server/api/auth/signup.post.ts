@@ -1,6 +1,6 @@
 import { signupSchemaFor } from '#shared/schemas/auth'
 import type { SignupResultDto } from '#shared/types/accounts'
-import { signUp, startSession, serverPasswordField } from '../../services/accounts'
+import { signUp, serverPasswordField } from '../../services/accounts'
 import { clubToday, homeClub } from '../../services/clubs'
 
 /**

@@ -1,6 +1,5 @@
 import { ProfileSchema } from '#shared/schemas/member'
 import { updateProfile } from '../../services/members'
-import { renameInSession } from '../../services/accounts'
 
 /**
  * Edit my own profile: name, phone, emergency contact, unit preference. Contact details are not

@@ -1,5 +1,4 @@
-import type { H3Event } from 'h3'
-import { Op, UniqueConstraintError, col, fn, where, type Transaction } from 'sequelize'
+import { Op, col, fn, where, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../../models'
 import type { Actor } from '../../utils/auth'
 import { isJunior } from '#shared/utils/membership-status'
@@ -28,7 +27,6 @@ export function linkFor(club: Pick<Club, 'publicUrl'>, path: string, token: stri
 
 /** The account whose e-mail is `email`, whatever its case. */
 export async function findUserByEmail(email: string, transaction?: Transaction): Promise<User | null> {
-  useDb()
   return User.findOne({ where: { [Op.and]: [where(fn('lower', col('email')), email.toLowerCase())] }, transaction })
 }
 
@@ -78,12 +76,13 @@ export async function upgradePasswordHash(user: Pick<User, 'id' | 'passwordHash'
 }
 
 /**
- * Locks account `userId`'s row FOR UPDATE inside `transaction` and returns it. Account writes take
- * this lock before touching the account's links or notices (the lock order is written down in
- * services/member-actions.ts), so two of them for one account queue up instead of deadlocking.
+ * Locks account `userId`'s row (utils/locks.ts) and returns it. Account writes take this lock before
+ * touching the account's links or notices, so two of them for one account queue up instead of deadlocking.
  */
-async function lockUser(userId: string, transaction: Transaction): Promise<User> {
-  return User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE, rejectOnEmpty: true })
+async function lockAccount(userId: string, transaction: Transaction): Promise<User> {
+  const user = await lockUser(userId, transaction)
+  if (!user) throw new Error(`account ${userId} vanished while it was being changed`)
+  return user
 }
 
 /** The member as the actor of their own action (sign-up, password reset), for the audit trail. */
@@ -157,35 +156,28 @@ export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> 
   const junior = isJunior(input.birthDate, clubToday(club))
   if (await findUserByEmail(input.email)) conflict(EMAIL_TAKEN_MESSAGE)
   const passwordHash = await makePasswordHash(input.password)
-  let user: User
-  try {
-    user = await useDb().transaction(async (transaction) => {
-      const created = await User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
-      const membership = await Membership.create({
-        clubId: club.id,
-        userId: created.id,
-        roles: ['member'],
-        birthDate: input.birthDate,
-        guardianName: junior ? input.guardianName : null,
-        guardianEmail: junior ? input.guardianEmail : null,
-      }, { transaction })
-      await queueVerification(club, created, membership, transaction)
-      if (junior) await queueGuardianConsent(club, created, membership, transaction)
-      await recordAudit(selfActor(created, membership, club), club.id, {
-        action: 'membership.signed_up',
-        subjectType: 'membership',
-        subjectId: membership.id,
-        // Who signed up is the subject's id; no e-mail, name or guardian is copied into the trail.
-        after: { status: 'pending', junior },
-      }, transaction)
-      return created
-    })
-  }
-  catch (error) {
+  const user = await inTransaction(async (transaction) => {
+    const created = await User.create({ email: input.email, name: input.name, passwordHash }, { transaction })
+    const membership = await Membership.create({
+      clubId: club.id,
+      userId: created.id,
+      roles: ['member'],
+      birthDate: input.birthDate,
+      guardianName: junior ? input.guardianName : null,
+      guardianEmail: junior ? input.guardianEmail : null,
+    }, { transaction })
+    await queueVerification(club, created, membership, transaction)
+    if (junior) await queueGuardianConsent(club, created, membership, transaction)
+    await recordAudit(selfActor(created, membership, club), club.id, {
+      action: 'membership.signed_up',
+      subjectType: 'membership',
+      subjectId: membership.id,
+      // Who signed up is the subject's id; no e-mail, name or guardian is copied into the trail.
+      after: { status: 'pending', junior },
+    }, transaction)
+    return created
     // Two sign-ups racing with one address: the unique index on lower(email) lets one through.
-    if (error instanceof UniqueConstraintError) conflict(EMAIL_TAKEN_MESSAGE)
-    mapDbError(error)
-  }
+  }, { uniqueMessage: EMAIL_TAKEN_MESSAGE })
   kickNoticeQueue()
   const session = await sessionFor(user)
   if (!session) throw new Error('sign-up left the account without a membership')
@@ -194,12 +186,12 @@ export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> 
 
 /** Confirms the e-mail address the link was sent to. The link works once (422 when used, expired or unknown). */
 export async function verifyEmail(token: string): Promise<EmailVerifiedDto> {
-  const email = await useDb().transaction(async (transaction) => {
+  const email = await inTransaction(async (transaction) => {
     const row = await consumeToken(token, 'verify_email', transaction)
     const user = await User.findByPk(row.userId, { transaction, rejectOnEmpty: true })
     if (!user.emailVerifiedAt) await user.update({ emailVerifiedAt: new Date() }, { transaction })
     return user.email
-  }).catch(mapDbError)
+  })
   return { verified: true, email }
 }
 
@@ -211,13 +203,13 @@ export async function resendVerification(actor: Actor): Promise<{ sentTo: string
   if (actor.user.emailVerifiedAt) {
     refuse({ code: 'EMAIL_ALREADY_VERIFIED', message: 'Your e-mail address is already confirmed.' })
   }
-  await useDb().transaction(async (transaction) => {
-    await lockUser(actor.user.id, transaction)
+  await inTransaction(async (transaction) => {
+    await lockAccount(actor.user.id, transaction)
     if (await recentTokenCount(actor.user.id, 'verify_email', 60, transaction) >= RESEND_MAX_PER_HOUR) {
       throw createError({ statusCode: 429, statusMessage: 'Too Many Requests', message: 'Several links were sent in the last hour. Check your inbox, or try again later.' })
     }
     await queueVerification(actor.club, actor.user, actor.membership, transaction)
-  }).catch(mapDbError)
+  })
   kickNoticeQueue()
   return { sentTo: actor.user.email }
 }
@@ -226,7 +218,7 @@ export async function resendVerification(actor: Actor): Promise<{ sentTo: string
  * Queues a password-reset link when an account with membership in the club uses `email`; does
  * nothing otherwise. Repeated requests beyond a few in a short window send nothing more (no inbox
  * flooding; counted with the account's row locked, so parallel requests cannot outrun the limit).
- * Routes call `requestPasswordResetAfterReply` instead, so the reply never waits on it.
+ * The route starts it without waiting, so the reply never waits on it.
  */
 export async function requestPasswordReset(email: string): Promise<void> {
   const club = await homeClub()
@@ -234,8 +226,8 @@ export async function requestPasswordReset(email: string): Promise<void> {
   if (!user) return
   const membership = await Membership.findOne({ where: { userId: user.id, clubId: club.id } })
   if (!membership) return
-  const queued = await useDb().transaction(async (transaction) => {
-    await lockUser(user.id, transaction)
+  const queued = await inTransaction(async (transaction) => {
+    await lockAccount(user.id, transaction)
     if (await recentTokenCount(user.id, 'reset_password', RESET_WINDOW_MINUTES, transaction) >= RESET_MAX_PER_WINDOW) return false
     const issued = await issueToken({ userId: user.id, membershipId: membership.id, purpose: 'reset_password' }, transaction)
     await enqueueNotice({
@@ -253,17 +245,6 @@ export async function requestPasswordReset(email: string): Promise<void> {
 }
 
 /**
- * Starts `requestPasswordReset(email)` without waiting for it: a known and an unknown e-mail are
- * answered in the same time, so the reply's timing never reveals an account. A failure is logged
- * (the member can ask again); the queue is kicked once the link is queued.
- */
-export function requestPasswordResetAfterReply(event: H3Event, email: string): void {
-  event.waitUntil(requestPasswordReset(email).catch((error: unknown) => {
-    console.error('[accounts] a password-reset request failed:', error)
-  }))
-}
-
-/**
  * Sets a new password from an e-mailed reset link: uses the link once, stops every other reset
  * link of the account, confirms the e-mail (the link proved it), ends every session of the account
  * (revoked in `sessions`; `address` goes into the log line), clears the sign-in failures and records
@@ -276,8 +257,8 @@ export async function resetPassword(token: string, password: string, address: st
   // transaction (no transaction waits on it); the conditional consume below still settles races.
   const peeked = await peekToken(token, 'reset_password')
   const passwordHash = await makePasswordHash(password)
-  const email = await useDb().transaction(async (transaction) => {
-    const user = await lockUser(peeked.userId, transaction)
+  const email = await inTransaction(async (transaction) => {
+    const user = await lockAccount(peeked.userId, transaction)
     const row = await consumeToken(token, 'reset_password', transaction)
     const membership = row.membershipId
       ? await Membership.findByPk(row.membershipId, { transaction, include: [{ model: Club, as: 'club' }] })
@@ -299,7 +280,7 @@ export async function resetPassword(token: string, password: string, address: st
       await queuePasswordChanged(membership.club, user, membership, row.id, transaction)
     }
     return user.email
-  }).catch(mapDbError)
+  })
   kickNoticeQueue()
   await clearLoginFailures(email.toLowerCase())
 }
@@ -325,7 +306,6 @@ function consentDto(m: Membership & { user: User, club: Club }): GuardianConsent
 
 /** Who the guardian's link is about (junior and club), without using the link. 422 when it cannot be used. */
 export async function guardianConsentPreview(token: string): Promise<GuardianConsentDto> {
-  useDb()
   const row = await peekToken(token, 'guardian_consent')
   return consentDto(await consentContext(row.membershipId))
 }
@@ -333,12 +313,12 @@ export async function guardianConsentPreview(token: string): Promise<GuardianCon
 /**
  * Records the guardian's consent from their e-mailed link (works once), with an audit event; the
  * actor is the guardian, who has no account: the trail says "a guardian", never who. The membership
- * row is locked before the link is used (the one lock order, see services/member-actions.ts).
+ * row is locked before the link is used (the one lock order, utils/locks.ts).
  */
 export async function confirmGuardianConsent(token: string): Promise<GuardianConsentDto> {
   const peeked = await peekToken(token, 'guardian_consent')
-  return useDb().transaction(async (transaction) => {
-    if (peeked.membershipId) await Membership.findByPk(peeked.membershipId, { transaction, lock: transaction.LOCK.UPDATE })
+  return inTransaction(async (transaction) => {
+    if (peeked.membershipId) await lockMemberships([peeked.membershipId], transaction)
     const row = await consumeToken(token, 'guardian_consent', transaction)
     const m = await consentContext(row.membershipId, transaction)
     // A second link for a junior who already has consent changes nothing (and records nothing).
@@ -354,5 +334,5 @@ export async function confirmGuardianConsent(token: string): Promise<GuardianCon
       by: 'guardian',
     }, transaction)
     return consentDto(m)
-  }).catch(mapDbError)
+  })
 }

@@ -1,4 +1,3 @@
-import type { H3Event } from 'h3'
 import { QueryTypes, type ModelStatic, type Model, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../../models'
 import type { SessionRevokeReason } from '../../models/Session'
@@ -48,31 +47,14 @@ export async function sessionFor(user: User): Promise<SessionStart | null> {
 }
 
 /**
- * Begins a session (sign-in, sign-up): a `sessions` row with the request's address and browser,
- * and a sealed cookie whose server-only part holds the row's id. The user in the cookie only shapes
- * the interface; every request reads the member again through the row.
+ * Opens a session row for `start` from `address` with browser `userAgent` and returns its id (the
+ * sealed cookie's server-only part; utils/session-cookie.ts sets the cookie).
  */
-export async function startSession(event: H3Event, start: SessionStart): Promise<void> {
-  const address = requestAddress(event).slice(0, 64)
-  const userAgent = getRequestHeader(event, 'user-agent')?.slice(0, 512) ?? null
+export async function openSession(start: SessionStart, address: string, userAgent: string | null): Promise<string> {
   const [row] = await useDb().query<{ id: string }>(
     `INSERT INTO sessions (user_id, membership_id, address, user_agent) VALUES (:userId, :membershipId, :address, :userAgent) RETURNING id`,
-    { replacements: { userId: start.user.id, membershipId: start.user.memberId, address, userAgent }, type: QueryTypes.SELECT })
-  await replaceUserSession(event, {
-    user: start.user,
-    secure: { sessionId: row!.id },
-    loggedInAt: new Date().toISOString(),
-  })
-  logAuthEvent({ account: start.user.email, address, outcome: 'signed_in' })
-}
-
-/**
- * Shows `name` as the signed-in member's name from now on, keeping everything else of the session
- * (its id above all). Replaces rather than merges: merging would concatenate the roles array.
- */
-export async function renameInSession(event: H3Event, name: string): Promise<void> {
-  const { id: _sessionId, ...session } = await getUserSession(event)
-  if (session.user) await replaceUserSession(event, { ...session, user: { ...session.user, name } })
+    { replacements: { userId: start.user.id, membershipId: start.user.memberId, address: address.slice(0, 64), userAgent: userAgent?.slice(0, 512) ?? null }, type: QueryTypes.SELECT })
+  return row!.id
 }
 
 /** A session that has not ended, with its member loaded as model instances (as a findOne would). */

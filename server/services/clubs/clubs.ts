@@ -7,7 +7,6 @@ import { dateInZone } from '#shared/utils/dates'
  * 503 when the database holds none (the seed has not run).
  */
 export async function homeClub(transaction?: Transaction): Promise<Club> {
-  useDb()
   const club = await Club.findOne({ order: [['createdAt', 'ASC']], transaction })
   if (!club) throw createError({ statusCode: 503, statusMessage: 'Service Unavailable', message: 'No club is set up yet' })
   return club

@@ -1,6 +1,7 @@
 import { QueryTypes, type Transaction } from 'sequelize'
 import { ZodError } from 'zod'
-import { Membership, User } from '../../models'
+import type { Membership } from '../../models'
+import { User } from '../../models'
 import { isJunior, membershipStatus, statusKeepsRights, type MembershipStatus } from '#shared/utils/membership-status'
 import { normaliseRoles, rolesCan, type Capability, type Role } from '#shared/utils/permissions'
 import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type MemberEdit } from '#shared/schemas/member'
@@ -14,12 +15,8 @@ import { SCRUB_LINKS_SQL, enqueueNotice, kickNoticeQueue } from '../notices'
 import { loadMemberDto } from './members'
 import { queueGuardianConsent, revokeTokens, revokeSessions } from '../accounts'
 
-// THE LOCK ORDER for every write that touches a member: first the membership row(s) (FOR UPDATE,
-// in id order when there are two), then the account's `users` row, then that member's action_tokens,
-// notices and sessions. Member actions here, the member's own profile edit (services/standing.ts),
-// password resets, link requests and guardian consent (services/accounts.ts) all keep to it, so two of them
-// for one member wait for each other instead of deadlocking; mapDbError answers 409 should the
-// database still report a deadlock.
+// Every write here locks through server/utils/locks.ts, in its order: the membership row(s), then
+// the account's, then that member's links, notices and sessions.
 
 export const MEMBERSHIP_ACTIONS = ['approve', 'suspend', 'reinstate', 'resign', 'rejoin'] as const
 export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
@@ -77,11 +74,6 @@ const RULES: Record<MembershipActionName, ActionRule> = {
 const statusIn = (m: Pick<Membership, 'paidThrough' | 'suspendedAt' | 'resignedAt'>, actor: Actor) =>
   membershipStatus(m, { timeZone: actor.club.timeZone, graceDays: actor.club.graceDays })
 
-/** Runs `work` in one transaction; a database error becomes 409/422 (mapDbError), never a 500. */
-function inTransaction<T>(work: (transaction: Transaction) => Promise<T>): Promise<T> {
-  return useDb().transaction(work).catch(mapDbError)
-}
-
 function forbid(capability: Capability): never {
   throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: `You do not have the right to do this (${capability})` })
 }
@@ -95,11 +87,7 @@ function forbid(capability: Capability): never {
  */
 async function lockForAction(actor: Actor, id: string, capability: Capability, transaction: Transaction): Promise<Membership> {
   const targetId = id.toLowerCase()
-  const rows = new Map<string, Membership>()
-  for (const rowId of [...new Set([actor.membership.id, targetId])].sort()) {
-    const row = await Membership.findOne({ where: { id: rowId, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
-    if (row) rows.set(row.id, row)
-  }
+  const rows = await lockMemberships([actor.membership.id, targetId], transaction, actor.club.id)
   const self = rows.get(actor.membership.id)
   if (!self || !statusKeepsRights(statusIn(self, actor)) || !rolesCan(self.roles, capability)) forbid(capability)
   const m = rows.get(targetId)
@@ -239,7 +227,7 @@ async function requestConsent(actor: Actor, m: Membership, user: User, reason: s
 export async function editMember(actor: Actor, id: string, edit: MemberEdit): Promise<MemberDto> {
   const consentQueued = await inTransaction(async (transaction) => {
     const m = await lockForAction(actor, id, 'members.manage', transaction)
-    const user = await User.findByPk(m.userId, { transaction, lock: transaction.LOCK.UPDATE })
+    const user = await lockUser(m.userId, transaction)
     if (!user) notFound('No such member')
     const changed: string[] = []
     const diff = <T extends object>(target: T, fields: readonly string[]) => {

@@ -70,7 +70,6 @@ export async function toMemberDto(m: Membership, user: User, club: Club): Promis
  * (callers answer 404: missing and "not in your club" look the same).
  */
 export async function loadMemberDto(clubId: string, membershipId: string): Promise<MemberDto | null> {
-  useDb()
   const m = await Membership.findOne({
     where: { id: membershipId, clubId },
     include: [{ model: User, as: 'user' }, { model: Club, as: 'club' }],

@@ -92,10 +92,10 @@ export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
 export async function updateProfile(actor: Actor, profile: Profile): Promise<MemberDto | null> {
   const { name, ...contact } = profile
   const changes = Object.fromEntries(Object.entries(contact).filter(([, v]) => v !== undefined))
-  await useDb().transaction(async (transaction) => {
-    // The one lock order (services/member-actions.ts): the membership row, then the account's.
-    await Membership.findOne({ where: { id: actor.membership.id, clubId: actor.club.id }, transaction, lock: transaction.LOCK.UPDATE })
-    const user = await User.findByPk(actor.user.id, { transaction, lock: transaction.LOCK.UPDATE })
+  await inTransaction(async (transaction) => {
+    // The one lock order (utils/locks.ts): the membership row, then the account's.
+    await lockMemberships([actor.membership.id], transaction, actor.club.id)
+    const user = await lockUser(actor.user.id, transaction)
     if (user && user.name !== name) {
       await User.update({ name }, { where: { id: actor.user.id }, transaction })
       await recordAudit(actor, actor.club.id, {
@@ -105,6 +105,6 @@ export async function updateProfile(actor: Actor, profile: Profile): Promise<Mem
     if (Object.keys(changes).length) {
       await Membership.update(changes, { where: { id: actor.membership.id, clubId: actor.club.id }, transaction })
     }
-  }).catch(mapDbError)
+  })
   return loadMemberDto(actor.club.id, actor.membership.id)
 }

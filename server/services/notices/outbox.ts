@@ -74,10 +74,8 @@ export async function listOutbox(club: { id: string, timeZone: string }, q: Outb
 export async function retryNotice(actor: Actor, noticeId: string): Promise<NoticeDto> {
   const clubId = actor.club.id
   const db = useDb()
-  const dto = await db.transaction(async (transaction) => {
-    const [before] = await db.query<{ status: string, kind: string, attempts: number }>(
-      'SELECT status, kind, attempts FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
-      { replacements: { id: noticeId, clubId }, type: QueryTypes.SELECT, transaction })
+  const dto = await inTransaction(async (transaction) => {
+    const before = await lockNotice(clubId, noticeId, transaction)
     if (!before) notFound('No such notice')
     if (before.status === 'sent') conflict('This notice has already been sent.')
     if (before.status === 'sending') conflict('This notice is being sent right now.')
@@ -97,7 +95,7 @@ export async function retryNotice(actor: Actor, noticeId: string): Promise<Notic
     const [row] = await db.query<NoticeRow>(`${SELECT_NOTICE} WHERE n.id = :id`,
       { replacements: { id: noticeId }, type: QueryTypes.SELECT, transaction })
     return toNoticeDto(row!)
-  }).catch(mapDbError)
+  })
   kickNoticeQueue()
   return dto
 }

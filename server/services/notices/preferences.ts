@@ -48,7 +48,7 @@ export async function previewOptOut(token: string): Promise<OptOutPreviewDto> {
 export async function applyOptOut(token: string): Promise<OptOutPreviewDto> {
   const { member, kind, def } = await memberOfToken(token)
   if (!def.optional) refuse(NOT_OPTIONAL)
-  await useDb().transaction(t => addOptOuts(member.id, [kind], t)).catch(mapDbError)
+  await inTransaction(t => addOptOuts(member.id, [kind], t))
   return preview(member, kind, def, true)
 }
 
@@ -78,11 +78,11 @@ export async function saveNoticeSettings(membershipId: string, optOuts: string[]
   }
   if (optOuts.some(k => isNoticeKind(k) && !NOTICE_KINDS[k].optional)) refuse(NOT_OPTIONAL)
   const kinds = [...new Set(optOuts)]
-  await useDb().transaction(async (transaction) => {
+  await inTransaction(async (transaction) => {
     // Whatever is not an optional kind (none today) is kept; the optional kinds are set as asked.
     await useDb().query(`UPDATE memberships SET notice_opt_outs = ARRAY(SELECT k FROM unnest(notice_opt_outs) k WHERE NOT (k = ANY(ARRAY[:optional]::text[])) ORDER BY 1),
       updated_at = now() WHERE id = :id`, { replacements: { id: membershipId, optional: optionalNoticeKinds() }, transaction })
     if (kinds.length) await addOptOuts(membershipId, kinds, transaction)
-  }).catch(mapDbError)
+  })
   return noticeSettings(membershipId)
 }

@@ -57,6 +57,7 @@ async function settleAbandoned(clubId?: string): Promise<void> {
 /**
  * Claims the next due notice so that two runs at once never take the same row (FOR UPDATE SKIP
  * LOCKED), marking it `sending` under a fresh claim id and a lease. With `clubId`, only that club's.
+ * This claim stands outside the lock order of utils/locks.ts: it never waits and holds no other lock.
  */
 async function claimNext(clubId?: string): Promise<ClaimedNotice | undefined> {
   const [notice] = await useDb().query<ClaimedNotice>(`

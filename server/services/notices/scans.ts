@@ -46,7 +46,6 @@ async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
 
 /** Runs every reminder scan for club `clubId` (or every club); returns how many notices were queued. */
 export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {}): Promise<number> {
-  useDb()
   const clubs = await Club.findAll({ where: opts.clubId ? { id: opts.clubId } : {}, order: [['createdAt', 'ASC']] })
   let queued = 0
   for (const club of clubs) queued += await scanClubDuesReminders(club, opts.now ?? new Date())

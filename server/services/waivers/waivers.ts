@@ -1,4 +1,4 @@
-import { QueryTypes, UniqueConstraintError } from 'sequelize'
+import { QueryTypes } from 'sequelize'
 import { Waiver } from '../../models'
 import { recordAudit } from '../audit'
 import { waiverStanding } from '../members'
@@ -53,26 +53,20 @@ export async function waiverHistory(clubId: string): Promise<WaiverVersionDto[]>
  */
 export async function publishWaiver(actor: Actor, input: WaiverPublish): Promise<WaiverDto> {
   const clubId = actor.club.id
-  try {
-    const id = await useDb().transaction(async (transaction) => {
-      const previous = (await Waiver.max<number | null, Waiver>('version', { where: { clubId }, transaction })) ?? 0
-      const waiver = await Waiver.create({ clubId, version: previous + 1, title: input.title, body: input.body, publishedBy: actor.membership.id }, { transaction })
-      await recordAudit(actor, clubId, {
-        action: 'waiver.publish',
-        subjectType: 'waiver',
-        subjectId: waiver.id,
-        before: previous ? { version: previous } : null,
-        after: { version: waiver.version, title: waiver.title },
-      }, transaction)
-      return waiver.id
-    })
-    const [row] = await useDb().query<WaiverRow>(selectWaivers(true), { replacements: { clubId, id }, type: QueryTypes.SELECT })
-    return toDto(row!)
-  }
-  catch (error) {
-    if (error instanceof UniqueConstraintError) conflict('Another version was published at the same moment. Reload and check it before publishing again.')
-    mapDbError(error)
-  }
+  const id = await inTransaction(async (transaction) => {
+    const previous = (await Waiver.max<number | null, Waiver>('version', { where: { clubId }, transaction })) ?? 0
+    const waiver = await Waiver.create({ clubId, version: previous + 1, title: input.title, body: input.body, publishedBy: actor.membership.id }, { transaction })
+    await recordAudit(actor, clubId, {
+      action: 'waiver.publish',
+      subjectType: 'waiver',
+      subjectId: waiver.id,
+      before: previous ? { version: previous } : null,
+      after: { version: waiver.version, title: waiver.title },
+    }, transaction)
+    return waiver.id
+  }, { uniqueMessage: 'Another version was published at the same moment. Reload and check it before publishing again.' })
+  const [row] = await useDb().query<WaiverRow>(selectWaivers(true), { replacements: { clubId, id }, type: QueryTypes.SELECT })
+  return toDto(row!)
 }
 
 /** Names compared as people type them: trimmed, inner spaces collapsed, case ignored. */

@@ -1,0 +1,50 @@
+import { QueryTypes, type Transaction } from 'sequelize'
+import { Membership, User } from '../models'
+import { useDb } from './db'
+
+// THE LOCK ORDER. Every row lock a request takes comes from this file, and one transaction takes
+// them in this order only, so two writes that touch the same rows wait for each other instead of
+// deadlocking (mapDbError still answers 409 should the database report one):
+//
+//   1. memberships, in id order when there are several      lockMemberships
+//   2. the account's users row                               lockUser
+//   3. vessel                                                (vessels: lockVessel, when they land)
+//   4. training session, or booking                          (training and bookings, when they land)
+//   5. payment, then the receipt counter                     (dues and payments, when they land)
+//   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
+//                                                            updated in place after 1–2
+//
+// A new kind of lock gets its function here, at its place in the list. The notice queue's claims
+// (`FOR UPDATE SKIP LOCKED` in services/notices/queue.ts) stand outside the order: they never wait,
+// and take no other lock while they hold one.
+
+/** Distinct ids, lower-cased and sorted: the order in which rows of one table are locked. */
+export function lockOrder(ids: readonly string[]): string[] {
+  return [...new Set(ids.map(id => id.toLowerCase()))].sort()
+}
+
+/**
+ * Locks the membership rows `ids` (of club `clubId` when given) FOR UPDATE, in id order, inside
+ * `transaction`; step 1 of the lock order. Returns the rows found, by id.
+ */
+export async function lockMemberships(ids: readonly string[], transaction: Transaction, clubId?: string): Promise<Map<string, Membership>> {
+  const rows = new Map<string, Membership>()
+  for (const id of lockOrder(ids)) {
+    const row = await Membership.findOne({ where: clubId ? { id, clubId } : { id }, transaction, lock: transaction.LOCK.UPDATE })
+    if (row) rows.set(row.id, row)
+  }
+  return rows
+}
+
+/** Locks account `userId`'s row FOR UPDATE inside `transaction` (step 2) and returns it, or null. */
+export async function lockUser(userId: string, transaction: Transaction): Promise<User | null> {
+  return User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE })
+}
+
+/** Locks notice `id` of club `clubId` FOR UPDATE (step 6) and returns what a retry decides on, or undefined. */
+export async function lockNotice(clubId: string, id: string, transaction: Transaction): Promise<{ status: string, kind: string, attempts: number } | undefined> {
+  const [row] = await useDb().query<{ status: string, kind: string, attempts: number }>(
+    'SELECT status, kind, attempts FROM notices WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
+  return row
+}
