@@ -1,2 +1,3 @@
 // The waivers domain's public surface: routes and other domains import from here, never from its files.
 export * from './waivers'
+export * from './dashboard-cards'

@@ -1,0 +1,94 @@
+import { QueryTypes } from 'sequelize'
+import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '#shared/utils/membership-status'
+import type { StandingDto } from '#shared/types/dto'
+import type { Card, CardProvider } from '../dashboard/provider'
+import { statusCaseSql } from './status-sql'
+
+// The status function as SQL (its one copy), with this file's replacements.
+const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
+
+const STATUS_HINTS: Record<MembershipStatus, string> = {
+  pending: 'Signed up, first dues not paid yet.',
+  active: 'Dues paid through today or later.',
+  grace: 'Dues ran out lately: can train, cannot fill or book.',
+  lapsed: 'Past the grace period: must renew.',
+  suspended: 'Suspended by the admin.',
+  resigned: 'Left the club.',
+}
+
+const days = (n: number) => `${n} day${n === 1 ? '' : 's'}`
+
+/** Cards every member gets: their own status, waiver and paid-through date. */
+function myCards(s: StandingDto): Card[] {
+  const m = s.member
+  const dues: Card = m.paidThrough
+    ? { key: 'my-paid-through', title: 'Dues paid through', value: m.paidThrough, hint: s.daysToExpiry! >= 0 ? `${days(s.daysToExpiry!)} left.` : `Ran out ${days(-s.daysToExpiry!)} ago.`, to: '/standing', tone: s.daysToExpiry! > 30 ? 'ok' : 'attention', group: 'mine' }
+    : { key: 'my-paid-through', title: 'Dues paid through', value: 'Never paid', hint: 'Your first dues make you an active member.', to: '/standing', tone: 'attention', group: 'mine' }
+  return [
+    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_LABELS[m.status], hint: STATUS_HINTS[m.status], to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
+    {
+      key: 'my-waiver',
+      title: 'Waiver',
+      value: m.waiver.currentVersion === null ? 'None published' : m.waiver.current ? `Version ${m.waiver.currentVersion} accepted` : 'Not accepted',
+      hint: m.waiver.current ? 'Nothing to do.' : `Read and accept version ${m.waiver.currentVersion}.`,
+      to: '/waiver',
+      tone: m.waiver.current ? 'ok' : 'attention',
+      group: 'mine',
+    },
+    dues,
+  ]
+}
+
+/** members.read: how many members the club has in each status. */
+async function memberCards(clubId: string, today: string, graceDays: number): Promise<Card[]> {
+  const rows = await useDb().query<{ status: MembershipStatus, n: number }>(`
+    SELECT ${MEMBERSHIP_STATUS_SQL} AS status, count(*)::int AS n FROM memberships m
+    WHERE m.club_id = :clubId GROUP BY 1`, { replacements: { clubId, today, graceDays }, type: QueryTypes.SELECT })
+  const byStatus = new Map(rows.map(r => [r.status, r.n]))
+  return MEMBERSHIP_STATUSES.map(status => ({
+    key: `members-${status}`,
+    title: MEMBERSHIP_STATUS_LABELS[status],
+    value: byStatus.get(status) ?? 0,
+    hint: STATUS_HINTS[status],
+    to: `/members?status=${status}`,
+    tone: (status === 'grace' || status === 'lapsed') && byStatus.get(status) ? 'attention' : 'neutral',
+    group: 'members',
+  }))
+}
+
+/**
+ * members.manage: sign-ups waiting for the admin's approval (the pending list it links to also holds
+ * approved, unpaid members), and how many of them are ready: the e-mail confirmed and, for a junior
+ * (under 18 on the club's `today`), the guardian's consent given (the rule of shared/utils/approval.ts).
+ */
+async function approvalCard(clubId: string, today: string): Promise<Card> {
+  const [row] = await useDb().query<{ n: number, ready: number }>(`
+    SELECT count(*)::int AS n,
+      count(*) FILTER (WHERE u.email_verified_at IS NOT NULL AND (m.guardian_consent_at IS NOT NULL
+        OR m.birth_date IS NULL OR m.birth_date <= (CAST(:today AS date) - interval '18 years')::date))::int AS ready
+    FROM memberships m JOIN users u ON u.id = m.user_id
+    WHERE m.club_id = :clubId AND m.approved_at IS NULL AND m.suspended_at IS NULL AND m.resigned_at IS NULL`,
+  { replacements: { clubId, today }, type: QueryTypes.SELECT })
+  const n = row?.n ?? 0
+  const ready = row?.ready ?? 0
+  const waiting = n - ready
+  const hint = !n
+    ? 'No sign-up is waiting.'
+    : `${ready} ready to approve${waiting ? `; ${waiting} still wait${waiting === 1 ? 's' : ''} for a confirmed e-mail or a guardian's consent` : ''}. The pending list also shows approved members who have not paid yet.`
+  return { key: 'pending-approvals', title: 'Sign-ups to approve', value: n, hint, to: '/members?status=pending', tone: ready ? 'attention' : n ? 'neutral' : 'ok', group: 'office' }
+}
+
+/** Every member: their own status, waiver and paid-through date. */
+export const myStandingCards: CardProvider = { cards: ({ standing }) => myCards(standing) }
+
+/** members.read: the club's members by status. */
+export const memberStatusCards: CardProvider = {
+  capability: 'members.read',
+  cards: ({ actor, standing }) => memberCards(actor.club.id, standing.today, actor.club.graceDays),
+}
+
+/** members.manage: sign-ups waiting for approval. */
+export const approvalCards: CardProvider = {
+  capability: 'members.manage',
+  cards: async ({ actor, standing }) => [await approvalCard(actor.club.id, standing.today)],
+}
