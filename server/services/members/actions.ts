@@ -7,8 +7,8 @@ import { normaliseRoles, rolesCan, type Capability, type Role } from '#shared/ut
 import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type MemberEdit } from '#shared/schemas/member'
 import type { MemberDto } from '#shared/types/dto'
 import { approvalBlockers } from '#shared/utils/approval'
+import { MEMBER_ACTION_RULES, type MembershipActionName, type MembershipFacts } from '#shared/utils/member-actions'
 import type { Actor } from '../../utils/auth'
-import type { Reason } from '../../utils/errors'
 import { changedFields, recordAudit } from '../audit'
 import { clubBaseUrl, clubToday } from '../clubs'
 import { SCRUB_LINKS_SQL, enqueueNotice, kickNoticeQueue } from '../notices'
@@ -18,57 +18,38 @@ import { queueGuardianConsent, revokeTokens, revokeSessions } from '../accounts'
 // Every write here locks through server/utils/locks.ts, in its order: the membership row(s), then
 // the account's, then that member's links, notices and sessions.
 
-export const MEMBERSHIP_ACTIONS = ['approve', 'suspend', 'reinstate', 'resign', 'rejoin'] as const
-export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
+export { MEMBERSHIP_ACTIONS, type MembershipActionName } from '#shared/utils/member-actions'
 
 type Changes = Partial<Pick<Membership, 'approvedAt' | 'suspendedAt' | 'suspendedReason' | 'resignedAt'>>
 
-interface ActionRule {
-  /** The audit-trail action it records (a literal, so tests/unit/audit-actions.test.ts finds it). */
+interface ActionEffect {
+  /** The audit-trail action it records (a literal, so tests/unit/audit/audit-actions.test.ts finds it). */
   action: string
-  /** Why the action is refused for this membership, or null when it may go ahead. */
-  refusal: (m: Membership, status: MembershipStatus, actor: Actor) => Reason | null
   /** The columns the action sets. */
   changes: (reason: string, now: Date) => Changes
 }
 
-const selfAction = (m: Membership, actor: Actor, verb: string): Reason | null =>
-  m.id === actor.membership.id ? { code: 'SELF_ACTION', message: `You cannot ${verb} your own membership; ask another admin.` } : null
+/** What each membership action records and sets; whether it may go ahead is MEMBER_ACTION_RULES' (shared). */
+const EFFECTS: Record<MembershipActionName, ActionEffect> = {
+  approve: { action: 'member.approve', changes: (_reason, now) => ({ approvedAt: now }) },
+  suspend: { action: 'member.suspend', changes: (reason, now) => ({ suspendedAt: now, suspendedReason: reason }) },
+  reinstate: { action: 'member.reinstate', changes: () => ({ suspendedAt: null, suspendedReason: null }) },
+  resign: { action: 'member.resign', changes: (_reason, now) => ({ resignedAt: now }) },
+  rejoin: { action: 'member.rejoin', changes: () => ({ resignedAt: null }) },
+}
 
-/** The membership actions an admin takes, each with the rule that may refuse it. */
-const RULES: Record<MembershipActionName, ActionRule> = {
-  approve: {
-    action: 'member.approve',
-    refusal: (m, status) => {
-      if (m.approvedAt) return { code: 'ALREADY_APPROVED', message: 'This sign-up has already been approved.' }
-      if (status !== 'pending') return { code: 'NOT_PENDING', message: `Only a pending sign-up can be approved; this membership is ${status}.` }
-      return null
-    },
-    changes: (_reason, now) => ({ approvedAt: now }),
-  },
-  suspend: {
-    action: 'member.suspend',
-    refusal: (m, status, actor) => selfAction(m, actor, 'suspend')
-      ?? (status === 'suspended' ? { code: 'ALREADY_SUSPENDED', message: 'This membership is already suspended.' } : null)
-      ?? (status === 'resigned' ? { code: 'MEMBER_RESIGNED', message: 'A resigned membership cannot be suspended.' } : null),
-    changes: (reason, now) => ({ suspendedAt: now, suspendedReason: reason }),
-  },
-  reinstate: {
-    action: 'member.reinstate',
-    refusal: m => (m.suspendedAt ? null : { code: 'NOT_SUSPENDED', message: 'Only a suspended membership can be reinstated.' }),
-    changes: () => ({ suspendedAt: null, suspendedReason: null }),
-  },
-  resign: {
-    action: 'member.resign',
-    refusal: (m, _status, actor) => selfAction(m, actor, 'resign')
-      ?? (m.resignedAt ? { code: 'ALREADY_RESIGNED', message: 'This membership is already marked resigned.' } : null),
-    changes: (_reason, now) => ({ resignedAt: now }),
-  },
-  rejoin: {
-    action: 'member.rejoin',
-    refusal: m => (m.resignedAt ? null : { code: 'NOT_RESIGNED', message: 'Only a resigned membership can rejoin.' }),
-    changes: () => ({ resignedAt: null }),
-  },
+/** Membership row `m` as the shared action rules see it. */
+function factsOf(m: Membership, status: MembershipStatus, actor: Actor): MembershipFacts {
+  return {
+    id: m.id,
+    status,
+    approvedAt: m.approvedAt,
+    suspendedAt: m.suspendedAt,
+    resignedAt: m.resignedAt,
+    junior: isJunior(m.birthDate, clubToday(actor.club)),
+    guardianEmail: m.guardianEmail,
+    guardianConsentAt: m.guardianConsentAt,
+  }
 }
 
 const statusIn = (m: Pick<Membership, 'paidThrough' | 'suspendedAt' | 'resignedAt'>, actor: Actor) =>
@@ -139,11 +120,11 @@ async function queueApproval(actor: Actor, m: Membership, user: User, transactio
  * and, for a junior, the guardian's consent (422 until then), and queues the welcome e-mail.
  */
 export async function changeMembership(actor: Actor, id: string, action: MembershipActionName, reason: string): Promise<MemberDto> {
-  const rule = RULES[action]
+  const rule = EFFECTS[action]
   await inTransaction(async (transaction) => {
     const m = await lockForAction(actor, id, 'members.manage', transaction)
     const status = statusIn(m, actor)
-    const refusal = rule.refusal(m, status, actor)
+    const refusal = MEMBER_ACTION_RULES[action](factsOf(m, status, actor), actor.membership.id)
     if (refusal) refuse(refusal)
     const account = action === 'approve' ? await checkApprovalReady(actor, m, transaction) : null
     const changes = rule.changes(reason, new Date())
@@ -287,9 +268,8 @@ export async function editMember(actor: Actor, id: string, edit: MemberEdit): Pr
 export async function resendGuardianConsent(actor: Actor, id: string, reason: string): Promise<MemberDto> {
   await inTransaction(async (transaction) => {
     const m = await lockForAction(actor, id, 'members.manage', transaction)
-    if (!isJunior(m.birthDate, clubToday(actor.club))) refuse({ code: 'NOT_JUNIOR', message: 'Only a member under 18 needs a guardian\'s consent.' })
-    if (!m.guardianEmail) refuse({ code: 'NO_GUARDIAN', message: 'No guardian e-mail is on record: add it under "Edit details" first.' })
-    if (m.guardianConsentAt) refuse({ code: 'ALREADY_CONSENTED', message: 'The guardian has already given their consent.' })
+    const refusal = MEMBER_ACTION_RULES['guardian-consent'](factsOf(m, statusIn(m, actor), actor), actor.membership.id)
+    if (refusal) refuse(refusal)
     const user = await User.findByPk(m.userId, { transaction })
     if (!user) notFound('No such member')
     await requestConsent(actor, m, user, reason, transaction)
