@@ -11,7 +11,7 @@ export function useOutboxFilters() {
   const route = useRoute()
   const router = useRouter()
   const filters = computed(() => readQueryFilters(OutboxQuerySchema, route.query))
-  /** The query sent to GET /api/notices (the same short form as the URL). */
+  /** The query sent to GET /api/outbox (the same short form as the URL). */
   const apiQuery = computed(() => writeQueryFilters(OutboxQuerySchema, filters.value))
   const active = computed(() => !!(filters.value.status || filters.value.kind))
 

@@ -39,12 +39,12 @@ const MATRIX: Record<string, Row> = {
   'POST /api/guardian-consent/preview': open(400),
   'GET /api/me/notice-settings': signedIn(200),
   'PUT /api/me/notice-settings': signedIn(400),
-  'GET /api/notices': only(200, 'admin'),
-  'POST /api/notices/run': only(200, 'admin'),
-  'POST /api/notices/[id]/retry': only(404, 'admin'), // [id] is a membership id here: no such notice
+  'GET /api/outbox': only(200, 'admin'),
+  'POST /api/outbox/run': only(200, 'admin'),
+  'POST /api/outbox/[id]/retry': only(404, 'admin'), // [id] is a membership id here: no such notice
   'GET /api/notices/opt-out': open(400), // no token
   'POST /api/notices/opt-out': open(400),
-  'GET /api/me': signedIn(200),
+  'GET /api/me/standing': signedIn(200),
   'PATCH /api/me/profile': signedIn(400),
   'GET /api/dashboard': signedIn(200),
   'GET /api/waivers/current': signedIn(200),

@@ -14,7 +14,7 @@ import { testEnv } from '../support/test-env'
 const NO_BODY: Record<string, string> = {
   'POST /api/auth/logout': 'signs out whatever the body',
   'POST /api/auth/resend-verification': 'acts on the signed-in account; takes no body',
-  'POST /api/notices/run': 'runs the notice job; takes no body',
+  'POST /api/outbox/run': 'runs the notice job; takes no body',
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
 }
 

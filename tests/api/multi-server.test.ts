@@ -36,11 +36,11 @@ describe('two app servers on one database', () => {
   it('a session begun on one works on the other and ends on both at sign-out', async () => {
     const member = await makeMember()
     const cookie = sessionCookieOf(await login(one, member.email, member.password))
-    expect((await api('/api/me', { as: cookie, baseUrl: two })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: cookie, baseUrl: two })).status).toBe(200)
 
     expect((await api('/api/auth/logout', { method: 'POST', as: cookie, baseUrl: one })).status).toBeLessThan(300)
-    expect((await api('/api/me', { as: cookie, baseUrl: one })).status).toBe(401)
-    expect((await api('/api/me', { as: cookie, baseUrl: two })).status).toBe(401)
+    expect((await api('/api/me/standing', { as: cookie, baseUrl: one })).status).toBe(401)
+    expect((await api('/api/me/standing', { as: cookie, baseUrl: two })).status).toBe(401)
   })
 
   it('failed sign-ins counted on one are refused on the other', async () => {
@@ -56,12 +56,12 @@ describe('two app servers on one database', () => {
     const members = await Promise.all([1, 2, 3, 4].map(() => makeMember({ paidDays: 10 })))
     const cookies = await Promise.all([one, two].map(base => signIn(base, DEMO.admin, DEMO.password)))
     const runs = await Promise.all([one, two].map((baseUrl, i) =>
-      api('/api/notices/run', { method: 'POST', as: cookies[i], baseUrl })))
+      api('/api/outbox/run', { method: 'POST', as: cookies[i], baseUrl })))
     for (const run of runs) expect(run.status).toBe(200)
 
     for (const m of members) await waitForMail(m.email, /dues/i)
     // A further run on each server finds nothing more to send for them.
-    await Promise.all([one, two].map((baseUrl, i) => api('/api/notices/run', { method: 'POST', as: cookies[i], baseUrl })))
+    await Promise.all([one, two].map((baseUrl, i) => api('/api/outbox/run', { method: 'POST', as: cookies[i], baseUrl })))
     for (const m of members) {
       expect(await mailsTo(m.email)).toHaveLength(1)
       const rows = await sql<{ status: string }>(`SELECT status FROM notices WHERE membership_id = $1`, [m.memberId])

@@ -114,10 +114,10 @@ describe('security headers', () => {
   })
 
   it('marks API answers with personal data no-store, errors included', async () => {
-    const me = await api('/api/me', { as: 'member' })
+    const me = await api('/api/me/standing', { as: 'member' })
     expect(me.status).toBe(200)
     expect(me.headers.get('cache-control')).toBe('no-store')
-    const anonymous = await api('/api/me')
+    const anonymous = await api('/api/me/standing')
     expect(anonymous.status).toBe(401)
     expect(anonymous.headers.get('cache-control')).toBe('no-store')
   })

@@ -11,7 +11,7 @@ await setupBrowser()
 describe('the opt-out page', () => {
   it('stops dues reminders from the e-mailed link without signing in, after a confirmation', async () => {
     const member = await makeMember({ paidDays: 11 })
-    expect((await api('/api/notices/run', { method: 'POST', as: 'admin' })).status).toBe(200)
+    expect((await api('/api/outbox/run', { method: 'POST', as: 'admin' })).status).toBe(200)
     const link = linkIn(await waitForMail(member.email, /dues run out/), '/opt-out')
 
     const page = await createPage(`${link.pathname}${link.search}`)

@@ -11,7 +11,7 @@ describe('the outbox', () => {
   it('shows an admin the notices and runs the queue on demand', async () => {
     // Something for the outbox to show: a member whose dues run out soon, reminded by a run.
     const member = await makeMember({ paidDays: 6 })
-    expect((await api('/api/notices/run', { method: 'POST', as: 'admin' })).status).toBe(200)
+    expect((await api('/api/outbox/run', { method: 'POST', as: 'admin' })).status).toBe(200)
     const later = await makeMember({ paidDays: 9 })
     await sql(`UPDATE notices SET status = 'failed', last_error = '550 No such mailbox (browser test)'
       WHERE id = (SELECT id FROM notices WHERE membership_id = $1 LIMIT 1)`, [member.memberId])

@@ -34,7 +34,7 @@ describe('my sessions on the profile page', () => {
       const ok = page.getByTestId('account-sessions').getByTestId('form-ok')
       await ok.waitFor()
       expect(await ok.textContent()).toMatch(/Safari on iPhone is signed out/)
-      expect((await api('/api/me', { as: phone })).status).toBe(401)
+      expect((await api('/api/me/standing', { as: phone })).status).toBe(401)
       expect(await page.getByTestId('session-other').count()).toBe(1)
 
       // "Everywhere else" asks first; the keyboard lands on the confirming button.
@@ -42,11 +42,11 @@ describe('my sessions on the profile page', () => {
       await page.keyboard.press('Enter')
       await page.getByTestId('sessions-confirm').waitFor()
       expect(await page.evaluate(() => document.activeElement?.getAttribute('data-testid'))).toBe('sessions-confirm-yes')
-      expect((await api('/api/me', { as: tablet })).status).toBe(200)
+      expect((await api('/api/me/standing', { as: tablet })).status).toBe(200)
       await page.keyboard.press('Enter')
       await page.getByTestId('session-other').first().waitFor({ state: 'detached' })
       expect(await ok.textContent()).toMatch(/One other session is signed out/)
-      expect((await api('/api/me', { as: tablet })).status).toBe(401)
+      expect((await api('/api/me/standing', { as: tablet })).status).toBe(401)
 
       // This device is still signed in.
       await goTo(page, '/profile')

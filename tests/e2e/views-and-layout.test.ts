@@ -31,7 +31,7 @@ async function pagerNumbers(page: Page, testId: string) {
 describe('views kept in the address', () => {
   it('the outbox opens on the dashboard\'s /outbox?status=failed and keeps its filters in the URL', async () => {
     const member = await makeMember({ paidDays: 7 })
-    expect((await api('/api/notices/run', { method: 'POST', as: 'admin' })).status).toBe(200)
+    expect((await api('/api/outbox/run', { method: 'POST', as: 'admin' })).status).toBe(200)
     await sql(`UPDATE notices SET status = 'failed', last_error = '550 Mailbox unavailable (views test)'
       WHERE id = (SELECT id FROM notices WHERE membership_id = $1 LIMIT 1)`, [member.memberId])
 

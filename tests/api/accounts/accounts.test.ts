@@ -381,13 +381,13 @@ describe('password reset', () => {
     })
     expect(renamed.status).toBe(200)
     const renamedCookie = sessionCookieOf(renamed)
-    expect((await api('/api/me', { as: before })).status).toBe(200)
-    expect((await api('/api/me', { as: renamedCookie })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: before })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: renamedCookie })).status).toBe(200)
 
     const newPassword = 'a-password-after-reset-3'
     await resetThroughLink(member.email, newPassword)
     for (const stale of [before, renamedCookie]) {
-      const res = await api('/api/me', { as: stale })
+      const res = await api('/api/me/standing', { as: stale })
       expect(res.status).toBe(401)
       expect(res.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))).toMatch(/^nuxt-session=;/)
       // The session endpoint (which the server-rendered page reads too) shows no user either.
@@ -406,7 +406,7 @@ describe('password reset', () => {
       method: 'PATCH', as: after, body: { name: 'Renamed After Reset', phone: null, emergencyContactName: null, emergencyContactPhone: null, unitPreference: 'psi' },
     })
     expect(edited.status).toBe(200)
-    const me = await api('/api/me', { as: sessionCookieOf(edited) })
+    const me = await api('/api/me/standing', { as: sessionCookieOf(edited) })
     expect(me.status).toBe(200)
     expect((await api('/api/_auth/session', { as: sessionCookieOf(edited) })).body.user.name).toBe('Renamed After Reset')
   })

@@ -117,7 +117,7 @@ describe('npm start against a database of your own, then npm run admin:create', 
     const login = await api('/api/auth/login', { baseUrl, body: { email: 'chair@club.example', password: PASSWORD } })
     expect(login.status).toBe(200)
     const cookie = sessionCookieOf(login)
-    const me = await api('/api/me', { baseUrl, as: cookie })
+    const me = await api('/api/me/standing', { baseUrl, as: cookie })
     expect(me.body.member).toMatchObject({ roles: ['member', 'admin'], status: 'active' })
     expect(me.body.club.name).toBe('Estuary Rocketry Club')
     expect((await api('/api/members', { baseUrl, as: cookie })).status).toBe(200)

@@ -25,7 +25,7 @@ async function newestSession(userId: string): Promise<string> {
 
 /** Asserts that `cookie` no longer signs anyone in: 401 on a route and no user on the session endpoint. */
 async function expectEnded(cookie: string) {
-  const me = await api('/api/me', { as: cookie })
+  const me = await api('/api/me/standing', { as: cookie })
   expect(me.status).toBe(401)
   expect(me.headers.getSetCookie().find(c => c.startsWith('nuxt-session='))).toMatch(/^nuxt-session=;/)
   const shown = await api('/api/_auth/session', { as: cookie })
@@ -41,7 +41,7 @@ describe('sessions that end', () => {
     const m = await makeMember()
     const cookie = await signIn(m)
     const copy = cookie
-    expect((await api('/api/me', { as: copy })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: copy })).status).toBe(200)
     expect((await api('/api/auth/logout', { method: 'POST', as: cookie })).status).toBe(200)
     await expectEnded(copy)
     const [row] = await sql<{ revoke_reason: string }>('SELECT revoke_reason FROM sessions WHERE user_id = $1', [m.userId])
@@ -60,7 +60,7 @@ describe('sessions that end', () => {
     await expectEnded(phone)
 
     const again = await signIn(m)
-    const me = await api('/api/me', { as: again })
+    const me = await api('/api/me/standing', { as: again })
     expect(me.status).toBe(200)
     expect(me.body.member.status).toBe(status)
     expect((await api('/api/members', { as: again })).status).toBe(403)
@@ -75,7 +75,7 @@ describe('sessions that end', () => {
     expect((await api('/api/auth/password-reset', { body: { token, password } })).status).toBe(200)
     await expectEnded(a)
     await expectEnded(b)
-    expect((await api('/api/me', { as: await signIn(m, password) })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: await signIn(m, password) })).status).toBe(200)
   })
 
   it('ends a session past its absolute lifetime (30 days), however recently it was used', async () => {
@@ -84,7 +84,7 @@ describe('sessions that end', () => {
     const [youngId, oldId] = (await sql<{ id: string }>('SELECT id FROM sessions WHERE user_id = $1 ORDER BY created_at', [m.userId])).map(r => r.id)
     await sql(`UPDATE sessions SET created_at = now() - interval '29 days 23 hours' WHERE id = $1`, [youngId])
     await sql(`UPDATE sessions SET created_at = now() - interval '30 days 1 minute' WHERE id = $1`, [oldId])
-    expect((await api('/api/me', { as: young })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: young })).status).toBe(200)
     await expectEnded(old)
   })
 
@@ -94,7 +94,7 @@ describe('sessions that end', () => {
     const [recentId, idleId] = (await sql<{ id: string }>('SELECT id FROM sessions WHERE user_id = $1 ORDER BY created_at', [m.userId])).map(r => r.id)
     await sql(`UPDATE sessions SET created_at = now() - interval '10 days', last_seen_at = now() - interval '6 days 23 hours' WHERE id = $1`, [recentId])
     await sql(`UPDATE sessions SET created_at = now() - interval '10 days', last_seen_at = now() - interval '7 days 1 minute' WHERE id = $1`, [idleId])
-    expect((await api('/api/me', { as: recent })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: recent })).status).toBe(200)
     await expectEnded(idle)
     // Using the first one moved its "last seen" on, so it is no longer near its idle timeout.
     const [seen] = await sql<{ idle: boolean }>(`SELECT last_seen_at > now() - interval '1 minute' AS idle FROM sessions WHERE id = $1`, [recentId])
@@ -108,11 +108,11 @@ describe('sessions that end', () => {
     const lastSeen = async () => (await sql<{ at: string }>('SELECT last_seen_at::text AS at FROM sessions WHERE id = $1', [id]))[0]!.at
     await sql(`UPDATE sessions SET last_seen_at = now() - interval '2 minutes' WHERE id = $1`, [id])
     const before = await lastSeen()
-    for (let i = 0; i < 3; i++) expect((await api('/api/me', { as: cookie })).status).toBe(200)
+    for (let i = 0; i < 3; i++) expect((await api('/api/me/standing', { as: cookie })).status).toBe(200)
     expect(await lastSeen()).toBe(before)
 
     await sql(`UPDATE sessions SET last_seen_at = now() - interval '10 minutes' WHERE id = $1`, [id])
-    expect((await api('/api/me', { as: cookie })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: cookie })).status).toBe(200)
     const [fresh] = await sql<{ recent: boolean }>(`SELECT last_seen_at > now() - interval '1 minute' AS recent FROM sessions WHERE id = $1`, [id])
     expect(fresh!.recent).toBe(true)
   })
@@ -140,11 +140,11 @@ describe('my sessions in the profile', () => {
     const stranger = await signIn(await makeMember())
     expect((await api('/api/me/sessions', { as: stranger })).body).toHaveLength(1)
     expect((await api(`/api/me/sessions/${phoneId}`, { method: 'DELETE', as: stranger })).status).toBe(404)
-    expect((await api('/api/me', { as: phone })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: phone })).status).toBe(200)
 
     expect((await api(`/api/me/sessions/${phoneId}`, { method: 'DELETE', as: here })).status).toBe(200)
     await expectEnded(phone)
-    expect((await api('/api/me', { as: here })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: here })).status).toBe(200)
     expect((await api(`/api/me/sessions/${phoneId}`, { method: 'DELETE', as: here })).status).toBe(404)
     expect((await api('/api/me/sessions', { as: here })).body.map((s: { id: string }) => s.id)).toEqual([hereId])
   })
@@ -156,13 +156,13 @@ describe('my sessions in the profile', () => {
 
     const unconfirmed = await api('/api/me/sessions/sign-out-others', { as: here, body: {} })
     expect(unconfirmed.status).toBe(400)
-    for (const cookie of others) expect((await api('/api/me', { as: cookie })).status).toBe(200)
+    for (const cookie of others) expect((await api('/api/me/standing', { as: cookie })).status).toBe(200)
 
     const res = await api('/api/me/sessions/sign-out-others', { as: here, body: { confirm: true } })
     expect(res.status).toBe(200)
     expect(res.body).toEqual({ ended: 2 })
     for (const cookie of others) await expectEnded(cookie)
-    expect((await api('/api/me', { as: here })).status).toBe(200)
+    expect((await api('/api/me/standing', { as: here })).status).toBe(200)
     expect((await api('/api/me/sessions', { as: here })).body).toHaveLength(1)
   })
 })

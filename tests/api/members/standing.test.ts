@@ -13,7 +13,7 @@ async function signInAs(m: MadeMember): Promise<string> {
 
 async function standingOf(o: MemberOverrides) {
   const made = await makeMember(o)
-  const res = await api<StandingDto>('/api/me', { as: await signInAs(made) })
+  const res = await api<StandingDto>('/api/me/standing', { as: await signInAs(made) })
   expect(res.status).toBe(200)
   return { made, standing: res.body, codes: res.body.attention.map(a => a.code) }
 }
@@ -22,9 +22,9 @@ async function standingOf(o: MemberOverrides) {
 // "nothing else needs attention" is checked without the waiver item unless a case is about it.
 const withoutWaiver = (codes: string[]) => codes.filter(c => c !== 'WAIVER_NOT_ACCEPTED')
 
-describe('GET /api/me', () => {
+describe('GET /api/me/standing', () => {
   it('answers 401 when not signed in', async () => {
-    expect((await api('/api/me')).status).toBe(401)
+    expect((await api('/api/me/standing')).status).toBe(401)
   })
 
   it('gives the signed-in member their record, the club and today in the club\'s time zone', async () => {
@@ -94,7 +94,7 @@ describe('PATCH /api/me/profile', () => {
     const session = await api('/api/_auth/session', { as: res.headers.getSetCookie().length ? sessionCookieOf(res) : cookie })
     expect(session.body.user.name).toBe(valid.name)
     expect(session.body.user.roles).toEqual(['member'])
-    expect((await api<StandingDto>('/api/me', { as: cookie })).body.member.unitPreference).toBe('psi')
+    expect((await api<StandingDto>('/api/me/standing', { as: cookie })).body.member.unitPreference).toBe('psi')
   })
 
   it('clears optional fields sent empty and keeps those left out', async () => {

@@ -64,7 +64,7 @@ async function memberDueSoon(): Promise<{ id: string, email: string }> {
 interface Row { status: string, attempts: number, deferrals: number, last_error: string | null, later: boolean }
 const reminderOf = async (memberId: string) => (await sql<Row>(`SELECT status, attempts, deferrals, last_error, next_attempt_at > now() AS later
   FROM notices WHERE membership_id = $1 AND kind = 'dues_reminder'`, [memberId], databaseUrl))
-const run = () => api('/api/notices/run', { method: 'POST', as: cookie, baseUrl })
+const run = () => api('/api/outbox/run', { method: 'POST', as: cookie, baseUrl })
 
 describe('SMTP down, then up', () => {
   it('keeps the notice queued with a backoff while the mail server is down, then sends it exactly once', async () => {

@@ -127,7 +127,7 @@ async function memberWithNotice(tag: string, status = 'queued'): Promise<{ id: s
 }
 
 const deliveredTo = (email: string) => deliveries.filter(d => d.to.includes(email)).length
-const run = () => api('/api/notices/run', { method: 'POST', as: cookie, baseUrl })
+const run = () => api('/api/outbox/run', { method: 'POST', as: cookie, baseUrl })
 
 describe('a mail server slower than the lease', () => {
   it('delivers each notice exactly once when two queue runs go at once', async () => {

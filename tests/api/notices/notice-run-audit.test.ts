@@ -3,11 +3,11 @@ import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { demoClubId } from '../../support/factories'
 
-describe('POST /api/notices/run', () => {
+describe('POST /api/outbox/run', () => {
   it('records who sent the due e-mails now, and what the run did, in the audit trail', async () => {
     const clubId = await demoClubId()
     const [{ since } = { since: new Date(0) }] = await sql<{ since: Date }>('SELECT now() AS since')
-    const run = await api('/api/notices/run', { method: 'POST', as: 'admin' })
+    const run = await api('/api/outbox/run', { method: 'POST', as: 'admin' })
     expect(run.status).toBe(200)
 
     const rows = await sql<{ actor_membership_id: string | null, subject_id: string, after: Record<string, unknown> }>(

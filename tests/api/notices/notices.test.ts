@@ -37,7 +37,7 @@ async function rawHeaders(mail: CaughtMail): Promise<Record<string, string>> {
 }
 
 const settle = () => new Promise(r => setTimeout(r, 700))
-const run = () => api('/api/notices/run', { method: 'POST', as: 'admin' })
+const run = () => api('/api/outbox/run', { method: 'POST', as: 'admin' })
 const reminderMails = async (m: MadeMember): Promise<CaughtMail[]> => (await mailsTo(m.email)).filter(x => REMINDER.test(x.subject))
 
 async function queuedNotice(member: MadeMember, fields: { status?: string, subjectKey?: string, attempts?: number, lastError?: string } = {}) {
@@ -177,13 +177,13 @@ describe('the outbox', () => {
     await eventually(async () => (await remindersOf(members)).every(r => r.status === 'sent'))
 
     const query = { kind: 'dues_reminder', status: 'sent', pageSize: 2 }
-    const page1 = await api('/api/notices', { as: 'admin', query: { ...query, page: 1 } })
+    const page1 = await api('/api/outbox', { as: 'admin', query: { ...query, page: 1 } })
     expect(page1.status).toBe(200)
     expect(page1.body.items).toHaveLength(2)
     expect(page1.body.total).toBeGreaterThanOrEqual(3)
     expect(page1.body).toEqual(expect.objectContaining({ page: 1, pageSize: 2, timeZone: 'Europe/London' }))
     expect(page1.body.kinds).toEqual(expect.arrayContaining([{ kind: 'dues_reminder', label: 'Dues renewal reminder' }]))
-    const page2 = await api('/api/notices', { as: 'admin', query: { ...query, page: 2 } })
+    const page2 = await api('/api/outbox', { as: 'admin', query: { ...query, page: 2 } })
     expect(page2.status).toBe(200)
     const ids1 = page1.body.items.map((n: { id: string }) => n.id)
     for (const n of page2.body.items) expect(ids1).not.toContain(n.id)
@@ -196,30 +196,30 @@ describe('the outbox', () => {
     const keys = Object.keys(page1.body.items[0])
     for (const internal of ['textBody', 'htmlBody', 'lockedUntil', 'claimId', 'clubId']) expect(keys).not.toContain(internal)
 
-    const mine = await api('/api/notices', { as: 'admin', query: { kind: 'dues_reminder', pageSize: 100 } })
+    const mine = await api('/api/outbox', { as: 'admin', query: { kind: 'dues_reminder', pageSize: 100 } })
     const names = mine.body.items.map((n: { memberName: string }) => n.memberName)
     expect(names).toEqual(expect.arrayContaining(members.map(m => m.name)))
 
     for (const bad of [{ status: 'lost' }, { pageSize: 1000 }, { page: 0 }, { kind: 'Dues-Reminder' }]) {
-      expect((await api('/api/notices', { as: 'admin', query: bad })).status).toBe(400)
+      expect((await api('/api/outbox', { as: 'admin', query: bad })).status).toBe(400)
     }
     for (const as of ['member', 'instructor', 'safety'] as const) {
-      expect((await api('/api/notices', { as })).status).toBe(403)
-      expect((await api('/api/notices/run', { method: 'POST', as })).status).toBe(403)
+      expect((await api('/api/outbox', { as })).status).toBe(403)
+      expect((await api('/api/outbox/run', { method: 'POST', as })).status).toBe(403)
     }
-    expect((await api('/api/notices')).status).toBe(401)
-    expect((await api('/api/notices/run', { method: 'POST' })).status).toBe(401)
+    expect((await api('/api/outbox')).status).toBe(401)
+    expect((await api('/api/outbox/run', { method: 'POST' })).status).toBe(401)
   })
 
   it('retries a failed notice, never a sent one', async () => {
     const member = await makeMember()
     const failed = await queuedNotice(member, { status: 'failed', attempts: 10, lastError: '550 No such mailbox (test)' })
-    const listed = await api('/api/notices', { as: 'admin', query: { status: 'failed', pageSize: 100 } })
+    const listed = await api('/api/outbox', { as: 'admin', query: { status: 'failed', pageSize: 100 } })
     expect(listed.body.items.find((n: { id: string }) => n.id === failed)).toEqual(expect.objectContaining({
       status: 'failed', attempts: 10, lastError: '550 No such mailbox (test)',
     }))
 
-    const retried = await api(`/api/notices/${failed}/retry`, { method: 'POST', as: 'admin' })
+    const retried = await api(`/api/outbox/${failed}/retry`, { method: 'POST', as: 'admin' })
     expect(retried.status).toBe(200)
     expect(retried.body).toEqual(expect.objectContaining({ id: failed, status: 'queued' }))
     const [audit] = await sql<{ action: string, before: { status: string } }>(
@@ -230,12 +230,12 @@ describe('the outbox', () => {
     await eventually(async () => (await sql<{ status: string }>('SELECT status FROM notices WHERE id = $1', [failed]))[0]?.status === 'sent')
     await waitForMail(member.email, /test dues/)
 
-    const again = await api(`/api/notices/${failed}/retry`, { method: 'POST', as: 'admin' })
+    const again = await api(`/api/outbox/${failed}/retry`, { method: 'POST', as: 'admin' })
     expect(again.status).toBe(409)
-    expect((await api('/api/notices/00000000-0000-4000-8000-000000000000/retry', { method: 'POST', as: 'admin' })).status).toBe(404)
-    expect((await api('/api/notices/not-a-uuid/retry', { method: 'POST', as: 'admin' })).status).toBe(404)
-    expect((await api(`/api/notices/${failed}/retry`, { method: 'POST', as: 'member' })).status).toBe(403)
-    expect((await api(`/api/notices/${failed}/retry`, { method: 'POST' })).status).toBe(401)
+    expect((await api('/api/outbox/00000000-0000-4000-8000-000000000000/retry', { method: 'POST', as: 'admin' })).status).toBe(404)
+    expect((await api('/api/outbox/not-a-uuid/retry', { method: 'POST', as: 'admin' })).status).toBe(404)
+    expect((await api(`/api/outbox/${failed}/retry`, { method: 'POST', as: 'member' })).status).toBe(403)
+    expect((await api(`/api/outbox/${failed}/retry`, { method: 'POST' })).status).toBe(401)
   })
 })
 
@@ -246,7 +246,7 @@ describe('notices with a one-time link', () => {
         text_body, html_body, status, attempts)
       VALUES ($1, $2, 'password_reset', 'test', $3, $4, 'Reset (test)', 'token=removed', 'token=removed', 'failed', 10) RETURNING id`,
     [await demoClubId(), member.memberId, clubDay(0), member.email])
-    const res = await api(`/api/notices/${row!.id}/retry`, { method: 'POST', as: 'admin' })
+    const res = await api(`/api/outbox/${row!.id}/retry`, { method: 'POST', as: 'admin' })
     expect(res.status).toBe(422)
     expect(res.body.data.reasons[0].code).toBe('LINK_REMOVED')
     expect((await sql<{ status: string }>('SELECT status FROM notices WHERE id = $1', [row!.id]))[0]!.status).toBe('failed')

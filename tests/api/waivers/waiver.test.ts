@@ -68,7 +68,7 @@ describe('the waiver life cycle in one club', () => {
     const after = await current(as.member)
     expect(after.waiver).toMatchObject({ id: second.body.id, version: v2, ...text(2) })
     expect(after.standing).toMatchObject({ currentVersion: v2, acceptedVersion: v1, current: false })
-    const standing = await api<StandingDto>('/api/me', { as: as.member })
+    const standing = await api<StandingDto>('/api/me/standing', { as: as.member })
     expect(standing.body.member.waiver.current).toBe(false)
     expect(standing.body.attention.map(a => a.code)).toContain('WAIVER_NOT_ACCEPTED')
 
@@ -127,7 +127,7 @@ describe('the waiver life cycle in one club', () => {
     const rows = await sql<{ typed_name: string }>(`SELECT typed_name FROM waiver_acceptances WHERE membership_id = $1 AND waiver_id = $2`, [member.memberId, waiver!.id])
     expect(rows).toEqual([{ typed_name: typed.trim() }])
 
-    const standing = await api<StandingDto>('/api/me', { as: as.member })
+    const standing = await api<StandingDto>('/api/me/standing', { as: as.member })
     expect(standing.body.member.waiver.current).toBe(true)
     expect(standing.body.attention.map(a => a.code)).not.toContain('WAIVER_NOT_ACCEPTED')
   })
