@@ -83,7 +83,7 @@ export async function createFirstAdmin(sequelize: Sequelize, input: FirstAdminIn
       paidThrough: addCalendarDays(today, 365),
     }, { transaction })
     await recordAudit(null, club.id, {
-      action: 'membership.admin_created',
+      action: 'member.admin_created',
       subjectType: 'membership',
       subjectId: membership.id,
       after: { roles: membership.roles },

@@ -12,12 +12,12 @@ export const AUDIT_ACTION_LABELS: Record<string, string> = {
   'member.roles': 'Changed roles',
   'member.guardian_consent_request': 'Asked a guardian for consent',
   'member.rename': 'Changed a name',
-  'membership.signed_up': 'Signed up',
-  'membership.guardian_consent': 'Guardian gave consent',
+  'member.signed_up': 'Signed up',
+  'member.guardian_consent': 'Guardian gave consent',
   'account.password_reset': 'Reset a password from an e-mailed link',
   'waiver.publish': 'Published a waiver version',
   'notice.retry': 'Retried a notice',
-  'membership.admin_created': 'Admin created from the command line',
+  'member.admin_created': 'Admin created from the command line',
   'notice.run': 'Sent due e-mails now',
 }
 

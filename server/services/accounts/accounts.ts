@@ -169,7 +169,7 @@ export async function signUp(input: Signup, club: Club): Promise<SignupOutcome> 
     await queueVerification(club, created, membership, transaction)
     if (junior) await queueGuardianConsent(club, created, membership, transaction)
     await recordAudit(selfActor(created, membership, club), club.id, {
-      action: 'membership.signed_up',
+      action: 'member.signed_up',
       subjectType: 'membership',
       subjectId: membership.id,
       // Who signed up is the subject's id; no e-mail, name or guardian is copied into the trail.
@@ -325,7 +325,7 @@ export async function confirmGuardianConsent(token: string): Promise<GuardianCon
     if (m.guardianConsentAt) return consentDto(m)
     await m.update({ guardianConsentAt: new Date() }, { transaction })
     await recordAudit(null, m.clubId, {
-      action: 'membership.guardian_consent',
+      action: 'member.guardian_consent',
       subjectType: 'membership',
       subjectId: m.id,
       before: { guardianConsentAt: null },

@@ -242,7 +242,7 @@ describe('juniors and guardian consent', () => {
     const [row] = await sql<{ guardian_consent_at: Date }>('SELECT guardian_consent_at FROM memberships WHERE id = $1', [memberId])
     expect(row!.guardian_consent_at).not.toBeNull()
     const audit = await sql<{ actor_name: string, reason: string, after: Record<string, unknown> }>(
-      `SELECT actor_name, reason, after FROM audit_events WHERE subject_id = $1 AND action = 'membership.guardian_consent'`, [memberId])
+      `SELECT actor_name, reason, after FROM audit_events WHERE subject_id = $1 AND action = 'member.guardian_consent'`, [memberId])
     expect(audit).toHaveLength(1)
     // The guardian acted, but who they are stays out of the trail (it can never be erased).
     expect(audit[0]!.actor_name).toBe('Guardian (e-mailed link)')

@@ -109,7 +109,7 @@ describe('npm start against a database of your own, then npm run admin:create', 
     expect(await hasher.verify(row!.passwordHash, PASSWORD)).toBe(true)
     expect(await hasher.verify(row!.passwordHash, `${PASSWORD}x`)).toBe(false)
     const audit = await sql<{ action: string }>('SELECT action FROM audit_events', [], own.ownerUrl)
-    expect(audit).toEqual([{ action: 'membership.admin_created' }])
+    expect(audit).toEqual([{ action: 'member.admin_created' }])
     expect(await demoTraces(own.ownerUrl)).toEqual({ demo: 0, clubs: 1 })
 
     // And through the server, connected as the application role: sign in, an active admin's rights.

@@ -106,7 +106,7 @@ describe('no personal data in the append-only rows', () => {
     const [member] = await sql<{ id: string }>('SELECT m.id FROM memberships m JOIN users u ON u.id = m.user_id WHERE u.email = $1', [email])
     const rows = await rowsAbout(member!.id)
     expect(rows).toEqual([{
-      action: 'membership.signed_up', actor_membership_id: member!.id, actor_name: null, before: null, after: { status: 'pending', junior: true }, reason: null,
+      action: 'member.signed_up', actor_membership_id: member!.id, actor_name: null, before: null, after: { status: 'pending', junior: true }, reason: null,
     }])
     const text = JSON.stringify(rows).toLowerCase()
     for (const value of [email, guardianEmail, 'wren saltmarsh', 'hollis saltmarsh', birthDate]) expect(text).not.toContain(value)
