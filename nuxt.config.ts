@@ -68,7 +68,7 @@ export default defineNuxtConfig({
     compressPublicAssets: { gzip: true, brotli: true },
   },
   typescript: { strict: true },
-  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/passwords.ts).
+  // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/accounts/passwords.ts).
   auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   eslint: { config: { stylistic: { semi: false, quotes: 'single', commaDangle: 'always-multiline' } } },
   // Headers only: the project's own guard (server/middleware/0.request-guard.ts) bounds bodies, checks

@@ -6,7 +6,7 @@ import { JITI_OPTIONS } from './config.mjs'
 const jiti = createJiti(import.meta.url, JITI_OPTIONS)
 
 /**
- * A function hashing a password with THE server's scrypt parameters (server/services/password-hashing.ts,
+ * A function hashing a password with THE server's scrypt parameters (server/services/accounts/password-hashing.ts,
  * the one definition), so sign-in verifies these hashes and never needs to re-hash them.
  */
 export function makePasswordHasher() {

@@ -5,7 +5,7 @@ export type SessionRevokeReason = 'signed_out' | 'signed_out_elsewhere' | 'passw
 
 /**
  * One signed-in browser of an account: the sealed cookie carries only its id. Ended by sign-out
- * (`revokedAt`), or by the lifetimes counted from `createdAt` and `lastSeenAt` (see server/services/sessions.ts).
+ * (`revokedAt`), or by the lifetimes counted from `createdAt` and `lastSeenAt` (see server/services/accounts/sessions.ts).
  */
 export class Session extends Model {
   declare id: string

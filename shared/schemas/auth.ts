@@ -7,7 +7,7 @@ export const MIN_PASSWORD_LENGTH = 12
 
 /**
  * A new password: 12 to 200 characters. The server adds the common-password check
- * (server/services/passwords.ts), whose list is too large for the browser bundle.
+ * (server/services/accounts/passwords.ts), whose list is too large for the browser bundle.
  */
 export const passwordField = z.string()
   .min(MIN_PASSWORD_LENGTH, `At least ${MIN_PASSWORD_LENGTH} characters`)

@@ -1,7 +1,7 @@
 import type { MigrationFn } from '../migrator'
 
 /**
- * Indexes for the member directory's sort orders (server/services/member-directory.ts), so a page
+ * Indexes for the member directory's sort orders (server/services/members/directory.ts), so a page
  * sorted by joining date or by paid-through (newest first, never-paid last) is read from an index
  * instead of sorting the whole club. Measured with `npm run bench:directory`.
  */

@@ -4,7 +4,7 @@ import type { Sequelize, Transaction } from 'sequelize'
 export interface SeedContext {
   sequelize: Sequelize
   transaction: Transaction
-  /** Hashes a password with the server's scrypt parameters (server/services/password-hashing.ts). */
+  /** Hashes a password with the server's scrypt parameters (server/services/accounts/password-hashing.ts). */
   hashPassword: (plain: string) => Promise<string>
   /** The site's public address, used in e-mail links and QR codes. */
   publicUrl: string

@@ -5,7 +5,7 @@ import { createPasswordHash } from './password-hashing'
 import { Semaphore, SemaphoreFullError } from './semaphore'
 
 // Every password hash and check of the server goes through here (never nuxt-auth-utils'
-// hashPassword/verifyPassword directly), so the parameters are THE ones of services/password-hashing.ts
+// hashPassword/verifyPassword directly), so the parameters are THE ones of services/accounts/password-hashing.ts
 // and no more than NUXT_PASSWORD_HASH_CONCURRENCY hashes hold their 32 MiB at once.
 
 /** The message beside the password field when it is on the common-password list. */

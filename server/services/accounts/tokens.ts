@@ -25,7 +25,7 @@ export interface IssuedToken {
   /**
    * The secret that goes into the e-mailed link. action_tokens keeps only its SHA-256; the queued
    * notice's bodies hold the link until the notice is sent, skipped or fails for good, when the
-   * queue blanks it (services/notices.ts, scrubLinksSql).
+   * queue blanks it (services/notices/notices.ts, scrubLinksSql).
    */
   token: string
   expiresAt: Date

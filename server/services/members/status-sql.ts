@@ -2,7 +2,7 @@ import type { MembershipStatus } from '#shared/utils/membership-status'
 
 /**
  * The SQL mirror of `membershipStatus()` in shared/utils/membership-status.ts, over `memberships m`
- * — the one copy; keep it in step (tests/api/directory.test.ts and dashboard.test.ts check they agree
+ * — the one copy; keep it in step (tests/api/members/directory.test.ts and dashboard/dashboard.test.ts check they agree
  * for every status and at the grace boundaries). Precedence as there: suspended > resigned >
  * pending (never paid) > active (paid through today or later) > grace (paid_through >= today - grace
  * days) > lapsed. Each predicate is a plain range on `paid_through`, so the (club_id, paid_through)

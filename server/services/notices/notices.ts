@@ -43,7 +43,7 @@ export interface EnqueueInput {
 /**
  * Queues one e-mail. The database's unique key (member, kind, subject, due date) makes this
  * idempotent: a second call — even a concurrent one — queues nothing and returns false.
- * Call kickNoticeQueue() (services/notice-queue.ts) once the surrounding transaction has committed.
+ * Call kickNoticeQueue() (services/notices/queue.ts) once the surrounding transaction has committed.
  */
 export async function enqueueNotice(input: EnqueueInput, transaction?: Transaction): Promise<boolean> {
   const optional = NOTICE_KINDS[input.kind].optional

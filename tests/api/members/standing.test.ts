@@ -108,7 +108,7 @@ describe('PATCH /api/me/profile', () => {
 
   it('does not write an audit event for the member\'s own contact details', async () => {
     const made = await makeMember()
-    // The same name: a new one is audited (tests/api/audit-personal-data.test.ts).
+    // The same name: a new one is audited (tests/api/audit/audit-personal-data.test.ts).
     await api('/api/me/profile', { method: 'PATCH', body: { ...valid, name: made.name }, as: await signInAs(made) })
     expect(await sql(`SELECT 1 FROM audit_events WHERE subject_id = $1`, [made.memberId])).toEqual([])
   })
