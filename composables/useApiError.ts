@@ -1,5 +1,5 @@
 import type { FetchError } from 'ofetch'
-import type { RefusalBody } from '~~/shared/types/dto'
+import type { RefusalBody } from '~~/shared/types/common'
 
 /** An error body from our routes: 400 carries `data.fields`, 422 carries `data.reasons`. */
 interface ApiErrorData { message?: string, data?: { fields?: Record<string, string> } & Partial<RefusalBody> }

@@ -1,6 +1,6 @@
 import { currentWaiver } from '../../services/waivers'
 import { waiverStanding } from '../../services/members'
-import type { CurrentWaiverDto } from '#shared/types/dto'
+import type { CurrentWaiverDto } from '#shared/types/waivers'
 
 /** The waiver in force (null when none is published) and whether I have accepted it. */
 export default defineEventHandler(async (event): Promise<CurrentWaiverDto> => {

@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize'
 import type { AuditQuery } from '#shared/schemas/audit'
-import type { AuditEventDto, Paged } from '#shared/types/dto'
+import type { AuditEventDto } from '#shared/types/audit'
+import type { Paged } from '#shared/types/common'
 
 interface AuditRow {
   id: string

@@ -1,6 +1,6 @@
 import { actorCan, type Actor } from '../../utils/auth'
 import { loadStanding } from '../members'
-import type { DashboardDto } from '#shared/types/dto'
+import type { DashboardDto } from '#shared/types/dashboard'
 import type { Card } from './provider'
 import { DASHBOARD_PROVIDERS } from './providers'
 

@@ -1,6 +1,7 @@
 import type { Actor } from '../../utils/auth'
 import type { Capability } from '#shared/utils/permissions'
-import type { DashboardDto, StandingDto } from '#shared/types/dto'
+import type { DashboardDto } from '#shared/types/dashboard'
+import type { StandingDto } from '#shared/types/members'
 
 /** One card of the dashboard. */
 export type Card = DashboardDto['cards'][number]

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize'
 import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '#shared/utils/membership-status'
-import type { StandingDto } from '#shared/types/dto'
+import type { StandingDto } from '#shared/types/members'
 import type { Card, CardProvider } from '../dashboard/provider'
 import { statusCaseSql } from './status-sql'
 

@@ -4,7 +4,8 @@ import { membershipStatus, isJunior } from '#shared/utils/membership-status'
 import { dateInZone } from '#shared/utils/dates'
 import { normaliseRoles } from '#shared/utils/permissions'
 import { clubToday } from '../clubs'
-import type { MemberDto, MemberListItemDto, WaiverStandingDto } from '#shared/types/dto'
+import type { MemberDto, MemberListItemDto } from '#shared/types/members'
+import type { WaiverStandingDto } from '#shared/types/waivers'
 
 const iso = (d: Date | null | undefined) => (d ? new Date(d).toISOString() : null)
 

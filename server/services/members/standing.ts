@@ -6,7 +6,8 @@ import { addCalendarDays, daysBetween, formatCalendarDate as long } from '#share
 import { clubToday } from '../clubs'
 import { changedFields, recordAudit } from '../audit'
 import type { Profile } from '#shared/schemas/member'
-import type { AttentionItem, ClubDto, MemberDto, StandingDto } from '#shared/types/dto'
+import type { AttentionItem, MemberDto, StandingDto } from '#shared/types/members'
+import type { ClubDto } from '#shared/types/clubs'
 import type { Actor } from '../../utils/auth'
 
 /** The club as the member's screens see it. */

@@ -1,4 +1,4 @@
-import type { NoticeRunDto } from '#shared/types/dto'
+import type { NoticeRunDto } from '#shared/types/notices'
 import { runNoticeScans } from './scans'
 import { runNoticeQueue } from './queue'
 

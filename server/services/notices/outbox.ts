@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize'
-import type { NoticeDto, OutboxPageDto } from '#shared/types/dto'
+import type { NoticeDto, OutboxPageDto } from '#shared/types/notices'
 import type { OutboxQuery } from '#shared/schemas/notice'
 import type { Actor } from '../../utils/auth'
 import { recordAudit } from '../audit'

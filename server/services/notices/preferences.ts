@@ -1,5 +1,5 @@
 import { QueryTypes, type Transaction } from 'sequelize'
-import type { NoticeSettingsDto, OptOutPreviewDto } from '#shared/types/dto'
+import type { NoticeSettingsDto, OptOutPreviewDto } from '#shared/types/notices'
 import { NOTICE_KINDS, isNoticeKind, optionalNoticeKinds, type NoticeKind } from './kinds'
 import { readOptOutToken } from './opt-out'
 import { optOutSecret } from './notices'

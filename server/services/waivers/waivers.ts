@@ -5,7 +5,7 @@ import { waiverStanding } from '../members'
 import type { Actor } from '../../utils/auth'
 import type { WaiverAccept, WaiverPublish } from '#shared/schemas/waiver'
 import { WAIVER_NEEDS_EMAIL } from '#shared/utils/approval'
-import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '#shared/types/dto'
+import type { WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '#shared/types/waivers'
 
 interface WaiverRow {
   id: string
