@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia'
-import type { StandingDto } from '~~/shared/types/dto'
+import type { StandingDto } from '~~/shared/types/members'
 
 /**
  * The signed-in member's club as the interface needs it everywhere: its time zone, so every instant

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { attentionFor } from '../../../server/services/members/standing'
-import type { ClubDto, MemberDto } from '../../../shared/types/dto'
+import type { ClubDto } from '../../../shared/types/clubs'
+import type { MemberDto } from '../../../shared/types/members'
 
 describe('my standing does not promise more than the records allow', () => {
   it('says a lapsed member\'s renewal brings back training and bookings, and what else a fill needs', () => {
