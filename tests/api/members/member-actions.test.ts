@@ -313,7 +313,7 @@ describe('a junior\'s guardian and their consent', () => {
 
     // One transaction writes the edit and the request, so only the requests' order is certain.
     const events = await auditOf(m.memberId)
-    expect(events.map(e => e.action).sort()).toEqual(['member.edit', 'member.guardian_consent_request', 'member.guardian_consent_request', 'member.guardian_consent'])
+    expect(events.map(e => e.action).sort()).toEqual(['member.edit', 'member.guardian_consent', 'member.guardian_consent_request', 'member.guardian_consent_request'])
     const requests = events.filter(e => e.action === 'member.guardian_consent_request')
     expect(requests[0]).toMatchObject({ reason: 'Guardian lost the first e-mail', after: { linksStopped: 0 } })
     expect(requests[1]).toMatchObject({ reason: 'Guardian changed at the parents\' request', after: { linksStopped: 1 } })
