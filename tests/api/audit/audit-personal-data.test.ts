@@ -4,7 +4,8 @@ import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { clubDay, makeMember } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
-import type { AuditEventDto, Paged } from '../../../shared/types/dto'
+import type { AuditEventDto } from '../../../shared/types/audit'
+import type { Paged } from '../../../shared/types/common'
 
 // The audit trail can never be changed or erased, so its rows name people by id only (the trail joins
 // their current names when read) and record which contact fields changed, never the values.

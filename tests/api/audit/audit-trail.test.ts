@@ -4,7 +4,8 @@ import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { demoClubId, makeMember } from '../../support/factories'
 import { testEnv } from '../../support/test-env'
-import type { AuditEventDto, Paged } from '../../../shared/types/dto'
+import type { AuditEventDto } from '../../../shared/types/audit'
+import type { Paged } from '../../../shared/types/common'
 
 describe('the audit trail is append-only in the database', () => {
   it('refuses plain SQL UPDATE, DELETE and TRUNCATE, leaving the row as it was', async () => {

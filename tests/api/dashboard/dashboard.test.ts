@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { makeClub, makeMember, type MadeMember } from '../../support/factories'
 import { sql } from '../../support/db'
-import type { DashboardDto } from '../../../shared/types/dto'
+import type { DashboardDto } from '../../../shared/types/dashboard'
 import type { DemoRole } from '../../support/test-env'
 
 async function signInAs(m: MadeMember): Promise<string> {

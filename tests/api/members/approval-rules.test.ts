@@ -3,7 +3,8 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { sql } from '../../support/db'
 import { clubDay, makeClub, makeMember, type MadeMember, type MemberOverrides } from '../../support/factories'
-import type { CurrentWaiverDto, DashboardDto } from '../../../shared/types/dto'
+import type { CurrentWaiverDto } from '../../../shared/types/waivers'
+import type { DashboardDto } from '../../../shared/types/dashboard'
 
 // Accepting the waiver and being approved need a confirmed e-mail; approving a junior waits for the
 // guardian's consent. Each test makes its own members and confirms or consents through SQL, as the

@@ -4,7 +4,8 @@ import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { makeMember, CLUB_TIME_ZONE, type MadeMember } from '../../support/factories'
 import { MEMBERSHIP_STATUSES, membershipStatus, type MembershipStatus } from '../../../shared/utils/membership-status'
-import type { MemberListItemDto, Paged } from '../../../shared/types/dto'
+import type { MemberListItemDto } from '../../../shared/types/members'
+import type { Paged } from '../../../shared/types/common'
 
 type Page = Paged<MemberListItemDto>
 

@@ -3,7 +3,7 @@ import { api, sessionCookieOf } from '../../support/http'
 import { clubDay, makeMember, type MadeMember, type MemberOverrides } from '../../support/factories'
 import { sql } from '../../support/db'
 import { formatCalendarDate } from '../../../shared/utils/dates'
-import type { MemberDto, StandingDto } from '../../../shared/types/dto'
+import type { MemberDto, StandingDto } from '../../../shared/types/members'
 
 async function signInAs(m: MadeMember): Promise<string> {
   const res = await api('/api/auth/login', { body: { email: m.email, password: m.password } })

@@ -2,7 +2,9 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { makeClub, makeMember, type MadeMember } from '../../support/factories'
 import { sql } from '../../support/db'
-import type { CurrentWaiverDto, DashboardDto, StandingDto, WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../../shared/types/dto'
+import type { CurrentWaiverDto, WaiverAcceptedDto, WaiverDto, WaiverVersionDto } from '../../../shared/types/waivers'
+import type { DashboardDto } from '../../../shared/types/dashboard'
+import type { StandingDto } from '../../../shared/types/members'
 
 // A new waiver version asks every member of the club again. So that no other test file sees the
 // demo club's waiver change under it, these tests publish in a club of their own; the demo
