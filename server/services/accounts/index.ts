@@ -1,5 +1,8 @@
 // The accounts domain's public surface: routes and other domains import from here, never from its files.
 export * from './accounts'
+export * from './guardian-consent'
+export * from './password-reset'
+export * from './sign-up'
 export * from './known-device'
 export * from './password-hashing'
 export * from './passwords'
