@@ -19,6 +19,7 @@ const NO_BODY: Record<string, string> = {
   'POST /api/auth/logout': 'signs out whatever the body',
   'POST /api/auth/resend-verification': 'acts on the signed-in account; takes no body',
   'POST /api/notices/run': 'runs the notice job; takes no body',
+  'POST /api/notices/[id]/retry': 'queues the notice in the path again; takes no body',
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
 }
 

@@ -114,25 +114,27 @@ export async function makeClub(o: { name?: string, graceDays?: number, tagPrefix
 // Overrides are named like the columns (camelCase); timestamps take a Date, NOW, ago('7 days') or
 // fromNow('1 hour') (the database's clock), so a test says "a week ago" instead of writing SQL.
 
-/** A moment relative to the database's now(): `{ interval: '-7 days' }`. */
-export interface Relative { interval: string }
+/** A moment relative to the database's now(): `interval` after it, or before it when `before`. */
+export interface Relative { interval: string, before?: boolean }
 /** A timestamp override: a Date, or a moment relative to the database's clock. */
 export type When = Date | Relative
 /** The database's now(). */
 export const NOW: Relative = { interval: '0 seconds' }
 /** `interval` before the database's now(), e.g. ago('30 days 1 minute'). */
-export const ago = (interval: string): Relative => ({ interval: `-${interval}` })
+// Not '-7 days 1 minute': PostgreSQL signs each part of an interval on its own (-7 days +1 minute).
+export const ago = (interval: string): Relative => ({ interval, before: true })
 /** `interval` after the database's now(), e.g. fromNow('1 hour'). */
 export const fromNow = (interval: string): Relative => ({ interval })
 
 const isRelative = (v: unknown): v is Relative =>
-  typeof v === 'object' && v !== null && !(v instanceof Date) && !Array.isArray(v) && Object.keys(v).join() === 'interval'
+  typeof v === 'object' && v !== null && !(v instanceof Date) && !Array.isArray(v) && typeof (v as Relative).interval === 'string'
 const column = (key: string) => key.replace(/[A-Z]/g, c => `_${c.toLowerCase()}`)
 
 /** `$n` (or `now() + $n::interval`) for `value`, pushing its parameter. */
 function placeholder(value: unknown, params: unknown[]): string {
   params.push(isRelative(value) ? value.interval : value)
-  return isRelative(value) ? `now() + $${params.length}::interval` : `$${params.length}`
+  if (!isRelative(value)) return `$${params.length}`
+  return `now() ${value.before ? '-' : '+'} $${params.length}::interval`
 }
 
 /** Inserts one row (undefined values take the column default) and returns its id. */
