@@ -1,7 +1,7 @@
 import { describe, it, expect, beforeAll, inject } from 'vitest'
 import { api } from '../support/http'
 import { makeMember } from '../support/factories'
-import { discoverRoutes, concretePath } from '../support/routes'
+import { discoverRoutes, concretePath, routeParams } from '../support/routes'
 import { signIn } from '../support/global-setup'
 import { DEMO } from '../support/test-env'
 
@@ -69,6 +69,20 @@ const MATRIX: Record<string, Row> = {
 
 let subjectId = ''
 
+/**
+ * What each route parameter is filled with, by name, wherever it sits in the path. `[id]` is another
+ * member's membership id (so a notice or session route answers 404: none of theirs has that id).
+ * A route with a parameter not named here fails the matrix until a value is added.
+ */
+const PARAM_VALUES: Record<string, () => string> = {
+  id: () => subjectId,
+}
+const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
+  const value = PARAM_VALUES[name]
+  if (!value) throw new Error(`${pattern}: no value for [${name}] in PARAM_VALUES`)
+  return [name, value()]
+}))
+
 describe('authorization matrix', () => {
   const routes = discoverRoutes()
 
@@ -81,6 +95,17 @@ describe('authorization matrix', () => {
     expect(Object.keys(MATRIX).filter(r => !routes.includes(r))).toEqual([])
   })
 
+  it('has a value for every route parameter', () => {
+    expect([...new Set(routes.flatMap(r => routeParams(r)))].filter(name => !PARAM_VALUES[name])).toEqual([])
+  })
+
+  it('fills every parameter of a pattern, nested ones too, and refuses one it has no value for', () => {
+    const values = { id: 'a1', token: 't/2', slug: 'x' }
+    expect(concretePath('/api/clubs/[id]/links/[token]/[...slug]', values)).toBe('/api/clubs/a1/links/t%2F2/x')
+    expect(routeParams('/api/clubs/[id]/links/[token]')).toEqual(['id', 'token'])
+    expect(() => concretePath('/api/vessels/[tag]', values)).toThrow(/\[tag\]/)
+  })
+
   const cases = routes.flatMap(route => (['anon', 'member', 'instructor', 'safety', 'admin'] as Who[])
     .map(who => [route, who] as const))
 
@@ -88,7 +113,7 @@ describe('authorization matrix', () => {
     const row = MATRIX[route]
     if (!row) return expect.fail(`no row for ${route}`)
     const [method, pattern] = route.split(' ') as [string, string]
-    const path = concretePath(pattern, subjectId)
+    const path = concretePath(pattern, paramValues(pattern))
     // Signing out ends the session it is sent with, so it gets a session of its own, never the shared one.
     const as = who === 'anon' ? undefined : route === 'POST /api/auth/logout' ? await signIn(inject('baseUrl'), DEMO[who], DEMO.password) : who
     const res = await api(path, { method, as, body: method === 'GET' ? undefined : {} })

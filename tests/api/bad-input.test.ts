@@ -1,41 +1,37 @@
 import { describe, it, expect, beforeAll } from 'vitest'
+import type { ZodTypeAny } from 'zod'
 import { api } from '../support/http'
 import { sql } from '../support/db'
-import { makeMember, type MadeMember } from '../support/factories'
+import { clubDay, makeMember, type MadeMember } from '../support/factories'
 import { signIn } from '../support/global-setup'
-import { discoverRoutes, concretePath } from '../support/routes'
+import { discoverRoutes, concretePath, routeParams } from '../support/routes'
+import { badValuesFor, bodySchemaRef, fieldsOf, kindOf, loadBodySchema, readsBody } from '../support/body-schemas'
 import { testEnv } from '../support/test-env'
 
 /**
- * Every write route × malformed JSON, wrong shapes and types, missing fields and oversize strings →
- * a 4xx with a message, never a 500, and nothing written. The caller holds every role, so what is
- * tested is the input check, not the right. Routes that take no body are listed with the reason.
+ * Every write route × whole-body faults (malformed JSON, not an object, over 64 KB, nested 5000 deep,
+ * control characters) and, field by field, bad values derived from the route's own body schema (found
+ * in the handler's `validBody(event, X)`) → a 4xx with a message, never a 500, and nothing written.
+ * The caller holds every role, so what is tested is the input check, not the right. A write route
+ * whose schema cannot be found fails; routes that take no body are listed with the reason.
  */
 const NO_BODY: Record<string, string> = {
   'POST /api/auth/logout': 'signs out whatever the body',
   'POST /api/auth/resend-verification': 'acts on the signed-in account; takes no body',
   'POST /api/outbox/run': 'runs the notice job; takes no body',
+  'POST /api/outbox/[id]/retry': 'queues the notice in the path again; takes no body',
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
 }
 
-const FIELDS = ['name', 'email', 'password', 'token', 'reason', 'version', 'typedName', 'title', 'body', 'birthDate',
-  'phone', 'unitPreference', 'guardianName', 'guardianEmail', 'emergencyContactName', 'emergencyContactPhone']
-const wrongTypes = { ...Object.fromEntries(FIELDS.map(f => [f, 12345])), roles: 'admin', optOuts: 'all' }
-// Long enough to break every field's limit while the whole body stays under the 64 KB cap (then 413).
-const huge = 'x'.repeat(3000)
-const oversize = { ...Object.fromEntries(FIELDS.map(f => [f, huge])), roles: [huge], optOuts: [huge], version: 1 }
-
-const PAYLOADS: [string, string | object][] = [
+const WHOLE_BODY: [string, string | object][] = [
   ['malformed JSON', '{"name": '],
   ['a JSON array', '[1, 2, 3]'],
   ['a JSON string', '"hello"'],
-  ['wrong types', wrongTypes],
-  ['missing fields', {}],
-  ['oversize strings', oversize],
   ['a body over 64 KB', { name: 'x'.repeat(70_000) }],
   ['JSON nested 5000 deep', `${'['.repeat(5000)}${']'.repeat(5000)}`],
-  ['NUL and other control characters', { ...Object.fromEntries(FIELDS.map(f => [f, 'Ann\u0000\u001B'])), roles: ['member'], version: 1 }],
 ]
+
+interface RouteCase { route: string, schema: ZodTypeAny, fields: Record<string, ZodTypeAny> }
 
 let actor: MadeMember
 let subject: MadeMember
@@ -58,29 +54,82 @@ async function footprint(): Promise<string> {
   return JSON.stringify(parts)
 }
 
-describe('bad input on every write route', () => {
-  const writes = discoverRoutes().filter(r => !r.startsWith('GET ') && !NO_BODY[r])
+const writes = discoverRoutes().filter(r => !r.startsWith('GET ') && !NO_BODY[r])
 
+/** Each write route with the schema its handler validates the body with (null when none is found). */
+async function routeCases(): Promise<(RouteCase | { route: string, schema: null })[]> {
+  return Promise.all(writes.map(async (route) => {
+    const ref = bodySchemaRef(route)
+    if (!ref) return { route, schema: null }
+    const schema = await loadBodySchema(ref, clubDay())
+    return { route, schema, fields: fieldsOf(schema) ?? {} }
+  }))
+}
+
+/** Sends `body` to the route (any path parameter is the subject's membership id) and checks the refusal. */
+async function expectRefused(route: string, label: string, body: unknown, field?: string) {
+  const [method, pattern] = route.split(' ') as [string, string]
+  const res = await api(concretePath(pattern, Object.fromEntries(routeParams(pattern).map(p => [p, subject.memberId]))), { method, as: cookie, body })
+  const what = `${route} with ${label}: ${res.status} ${JSON.stringify(res.body)?.slice(0, 200)}`
+  expect(res.status, what).toBeGreaterThanOrEqual(400)
+  expect(res.status, what).toBeLessThan(500)
+  expect(typeof res.body?.message, what).toBe('string')
+  expect(res.body.message.length, what).toBeGreaterThan(0)
+  if (field) {
+    // A bad value of one field is refused as that field's fault (400 naming it), not by accident.
+    expect(res.status, what).toBe(400)
+    expect(Object.keys(res.body.data?.fields ?? {}).some(k => k === field || k.startsWith(`${field}.`)), what).toBe(true)
+  }
+}
+
+describe('bad input on every write route', () => {
   beforeAll(async () => {
     actor = await makeMember({ roles: ['instructor', 'safety_officer', 'admin'] })
     subject = await makeMember({ paidDays: null, approved: false })
     cookie = await signIn(testEnv.baseUrl, actor.email, actor.password)
   })
 
-  it('lists only routes that exist among the body-less exceptions', () => {
+  it('lists only routes that exist and take no body among the body-less exceptions', () => {
     const all = discoverRoutes()
     expect(Object.keys(NO_BODY).filter(r => !all.includes(r))).toEqual([])
+    expect(Object.keys(NO_BODY).filter(r => readsBody(r))).toEqual([])
+  })
+
+  it('finds a body schema with named fields in shared/schemas for every other write route', async () => {
+    const cases = await routeCases()
+    expect(cases.filter(c => !c.schema).map(c => c.route)).toEqual([])
+    expect(cases.filter(c => c.schema && !Object.keys((c as RouteCase).fields).length).map(c => c.route)).toEqual([])
+  })
+
+  it('derives bad values the schemas refuse: wrong types, extra nesting, text and lists over their limits', async () => {
+    for (const c of await routeCases()) {
+      if (!c.schema) continue
+      for (const [field, schema] of Object.entries((c as RouteCase).fields)) {
+        for (const bad of badValuesFor(schema).filter(b => b.mustRefuse)) {
+          expect(schema.safeParse(bad.value).success, `${c.route} ${field}: ${bad.label}`).toBe(false)
+        }
+      }
+    }
   })
 
   it.each(writes)('%s refuses bad input with a 4xx and writes nothing', async (route) => {
-    const [method, pattern] = route.split(' ') as [string, string]
+    const c = (await routeCases()).find(x => x.route === route)!
+    if (!c.schema) return expect.fail(`${route}: no body schema found in its handler`)
+    const { schema, fields } = c as RouteCase
     const before = await footprint()
-    for (const [label, body] of PAYLOADS) {
-      const res = await api(concretePath(pattern, subject.memberId), { method, as: cookie, body })
-      expect(res.status, `${route} with ${label}: ${JSON.stringify(res.body)?.slice(0, 160)}`).toBeGreaterThanOrEqual(400)
-      expect(res.status, `${route} with ${label}`).toBeLessThan(500)
-      expect(typeof res.body?.message, `${route} with ${label} has a message`).toBe('string')
-      expect(res.body.message.length).toBeGreaterThan(0)
+    for (const [label, body] of WHOLE_BODY) await expectRefused(route, label, body)
+    const control = 'Ann\u0000\u001B'
+    const texts = Object.keys(fields).filter(f => ['string', 'array'].includes(kindOf(fields[f]!)))
+    await expectRefused(route, 'NUL and other control characters', texts.length
+      ? Object.fromEntries(texts.map(f => [f, kindOf(fields[f]!) === 'array' ? [control] : control]))
+      : { note: control })
+    if (!schema.safeParse({}).success) await expectRefused(route, 'no fields', {})
+    for (const [field, fieldSchema] of Object.entries(fields)) {
+      for (const bad of badValuesFor(fieldSchema)) {
+        // A value the field takes (an empty optional text, say) is not bad input.
+        if (fieldSchema.safeParse(bad.value).success) continue
+        await expectRefused(route, `${field}: ${bad.label}`, { [field]: bad.value }, field)
+      }
     }
     expect(await footprint()).toBe(before)
   })

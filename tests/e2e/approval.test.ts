@@ -2,8 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { describe, expect, it } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
 import { setupBrowser, submitSignIn, goTo } from '../support/browser'
-import { clubDay, makeMember } from '../support/factories'
-import { sql } from '../support/db'
+import { clubDay, makeMember, NOW, setMembership, setUser } from '../support/factories'
 import { DEMO } from '../support/test-env'
 
 await setupBrowser()
@@ -27,8 +26,8 @@ describe('the member page before approval', () => {
     expect(await page.getByTestId('approval-wait-GUARDIAN_CONSENT_MISSING').textContent()).toContain('approval waits for their parent or guardian to consent')
     expect(await page.getByTestId('action-approve').count()).toBe(0)
 
-    await sql('UPDATE users SET email_verified_at = now() WHERE id = $1', [junior.userId])
-    await sql('UPDATE memberships SET guardian_consent_at = now() WHERE id = $1', [junior.memberId])
+    await setUser(junior.userId, { emailVerifiedAt: NOW })
+    await setMembership(junior.memberId, { guardianConsentAt: NOW })
     await page.reload()
     await expect.poll(() => page.getByTestId('action-approve').count()).toBe(1)
     expect(await page.getByTestId('approval-waits').count()).toBe(0)

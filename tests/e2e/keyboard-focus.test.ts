@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
 import type { Page } from 'playwright-core'
 import { setupBrowser, goTo, signedInPage, submitSignIn } from '../support/browser'
-import { makeClub, makeMember } from '../support/factories'
+import { makeClub, makeMember, NOW, setUser } from '../support/factories'
 import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
@@ -150,7 +150,7 @@ describe('keyboard focus in forms', () => {
       await expect.poll(() => focused(page)).toBe('form-ok')
 
       // Confirmed meanwhile (in another tab): the next press says so instead of failing.
-      await sql('UPDATE users SET email_verified_at = now() WHERE id = $1', [member.userId])
+      await setUser(member.userId, { emailVerifiedAt: NOW })
       await page.getByTestId('profile-resend-verification').click()
       await expect.poll(() => result.textContent()).toContain('already confirmed')
       expect(await result.getByTestId('form-error').count()).toBe(0)

@@ -1,8 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { setupBrowser, signedInPage, goTo } from '../support/browser'
-import { makeMember } from '../support/factories'
+import { makeMember, noticesOf, setNotice } from '../support/factories'
 import { api } from '../support/http'
-import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
 await setupBrowser()
@@ -13,8 +12,8 @@ describe('the outbox', () => {
     const member = await makeMember({ paidDays: 6 })
     expect((await api('/api/outbox/run', { method: 'POST', as: 'admin' })).status).toBe(200)
     const later = await makeMember({ paidDays: 9 })
-    await sql(`UPDATE notices SET status = 'failed', last_error = '550 No such mailbox (browser test)'
-      WHERE id = (SELECT id FROM notices WHERE membership_id = $1 LIMIT 1)`, [member.memberId])
+    const [reminder] = await noticesOf(member.memberId)
+    await setNotice(reminder!, { status: 'failed', lastError: '550 No such mailbox (browser test)' })
 
     const page = await signedInPage(DEMO.admin, DEMO.password)
     await page.getByTestId('nav-outbox').first().click()

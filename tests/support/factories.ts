@@ -1,25 +1,32 @@
 // Test data straight into the test database, with overrides. Dates are relative to today in the
 // demo club's time zone, so the tests mean the same thing whatever day they run.
-import { randomUUID } from 'node:crypto'
+import { createHash, randomBytes, randomUUID } from 'node:crypto'
 import { createPasswordHash } from '../../server/services/accounts/password-hashing'
 import { sql } from './db'
-import { addCalendarDays, dateInZone } from '../../shared/utils/dates'
 import type { Role } from '../../shared/utils/permissions'
 
 export const CLUB_TIME_ZONE = 'Europe/London'
 export const FACTORY_PASSWORD = 'factory-password-123'
 
-/** Today (YYYY-MM-DD) in the demo club's time zone, optionally shifted by `days`. */
+/**
+ * Today (YYYY-MM-DD) in the demo club's time zone, optionally shifted by `days`. Worked out here with
+ * Intl and UTC date arithmetic, not with the app's calendar helpers, so the dates tests expect do not
+ * come from the code they test.
+ */
 export function clubDay(days = 0): string {
-  return addCalendarDays(dateInZone(new Date(), CLUB_TIME_ZONE), days)
+  // en-CA writes dates as YYYY-MM-DD.
+  const today = new Intl.DateTimeFormat('en-CA', { timeZone: CLUB_TIME_ZONE, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date())
+  const [y, m, d] = today.split('-').map(Number) as [number, number, number]
+  return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10)
 }
 
 // Hashed once per test file with the server's parameters (a hash costs about a third of a second).
 let hashed: Promise<string> | undefined
 const passwordHash = () => (hashed ??= createPasswordHash().make(FACTORY_PASSWORD))
 
-export async function demoClubId(): Promise<string> {
-  const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`)
+/** The demo club's id (in `db`, default the shared test database). */
+export async function demoClubId(db?: string): Promise<string> {
+  const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`, [], db)
   return club!.id
 }
 
@@ -40,43 +47,309 @@ export interface MemberOverrides {
   acceptWaiver?: boolean
   /** The club to join; default the demo club (see makeClub for a club of the test's own). */
   clubId?: string
+  /** Exact column values; each wins over the day-based and yes/no overrides above. */
+  paidThrough?: string | null
+  approvedAt?: When | null
+  suspendedAt?: When | null
+  resignedAt?: When | null
+  guardianConsentAt?: When | null
+  emailVerifiedAt?: When | null
+  noticeOptOuts?: string[]
+  phone?: string | null
+  unitPreference?: 'bar' | 'psi'
+  /** A stored hash (default: FACTORY_PASSWORD hashed with the server's parameters). */
+  passwordHash?: string
+  /** Another database (a test with a server and database of its own); default the shared one. */
+  db?: string
 }
 
 export interface MadeMember { userId: string, memberId: string, email: string, name: string, password: string }
 
 /** Creates an account and a membership in the demo club; unique e-mail unless given. */
 export async function makeMember(o: MemberOverrides = {}): Promise<MadeMember> {
-  const clubId = o.clubId ?? await demoClubId()
+  const clubId = o.clubId ?? await demoClubId(o.db)
   const tag = randomUUID().slice(0, 8)
-  const email = o.email ?? `member-${tag}@test.hoopwise.example`
   const name = o.name ?? `Test Member ${tag}`
-  const [user] = await sql<{ id: string }>(
-    `INSERT INTO users (email, name, password_hash, email_verified_at) VALUES ($1, $2, $3, $4) RETURNING id`,
-    [email, name, await passwordHash(), o.verified === false ? null : new Date()])
-  const paidThrough = o.paidDays === null ? null : clubDay(o.paidDays ?? 180)
-  const [m] = await sql<{ id: string }>(
-    `INSERT INTO memberships (club_id, user_id, roles, approved_at, paid_through, suspended_at, suspended_reason, resigned_at,
-       birth_date, guardian_name, guardian_email, guardian_consent_at)
-     VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12) RETURNING id`,
-    [clubId, user!.id, ['member', ...(o.roles ?? []).filter(r => r !== 'member')], o.approved === false ? null : new Date(),
-      paidThrough, o.suspendedReason ? new Date() : null, o.suspendedReason ?? null, o.resigned ? new Date() : null,
-      o.birthDate === undefined ? clubDay(-30 * 365) : o.birthDate, o.guardianName ?? null, o.guardianEmail ?? null,
-      o.guardianConsent ? new Date() : null])
-  if (o.acceptWaiver ?? true) {
-    await sql(`INSERT INTO waiver_acceptances (club_id, waiver_id, membership_id, typed_name)
-      SELECT $1, id, $2, $3 FROM waivers WHERE club_id = $1 ORDER BY version DESC LIMIT 1`, [clubId, m!.id, name])
-  }
-  return { userId: user!.id, memberId: m!.id, email, name, password: FACTORY_PASSWORD }
+  const { userId, email } = await makeUser({
+    email: o.email ?? `member-${tag}@test.hoopwise.example`, name, passwordHash: o.passwordHash,
+    emailVerifiedAt: o.emailVerifiedAt !== undefined ? o.emailVerifiedAt : o.verified === false ? null : NOW, db: o.db,
+  })
+  const pick = <T>(exact: T | undefined, fallback: T): T => (exact === undefined ? fallback : exact)
+  const memberId = await insertRow('memberships', {
+    clubId,
+    userId,
+    roles: ['member', ...(o.roles ?? []).filter(r => r !== 'member')],
+    approvedAt: pick(o.approvedAt, o.approved === false ? null : NOW),
+    paidThrough: pick(o.paidThrough, o.paidDays === null ? null : clubDay(o.paidDays ?? 180)),
+    suspendedAt: pick(o.suspendedAt, o.suspendedReason ? NOW : null),
+    suspendedReason: o.suspendedReason ?? null,
+    resignedAt: pick(o.resignedAt, o.resigned ? NOW : null),
+    birthDate: o.birthDate === undefined ? clubDay(-30 * 365) : o.birthDate,
+    guardianName: o.guardianName ?? null,
+    guardianEmail: o.guardianEmail ?? null,
+    guardianConsentAt: pick(o.guardianConsentAt, o.guardianConsent ? NOW : null),
+    noticeOptOuts: o.noticeOptOuts,
+    phone: o.phone,
+    unitPreference: o.unitPreference,
+  }, o.db)
+  if (o.acceptWaiver ?? true) await acceptWaiver({ memberId, typedName: name, db: o.db })
+  return { userId, memberId, email, name, password: FACTORY_PASSWORD }
 }
 
 /**
  * A club of the test's own (same time zone as the demo club, no waiver yet), for tests whose writes
  * touch every member of a club (a new waiver version) or that need exact club-wide counts.
  */
-export async function makeClub(o: { name?: string, graceDays?: number } = {}): Promise<{ id: string, name: string }> {
+export async function makeClub(o: { name?: string, graceDays?: number, tagPrefix?: string, timeZone?: string, publicUrl?: string, db?: string } = {}): Promise<{ id: string, name: string }> {
   const name = o.name ?? `Test Club ${randomUUID().slice(0, 8)}`
-  const [club] = await sql<{ id: string }>(
-    `INSERT INTO clubs (name, tag_prefix, time_zone, public_url, grace_days) VALUES ($1, 'TST', $2, 'http://127.0.0.1', $3) RETURNING id`,
-    [name, CLUB_TIME_ZONE, o.graceDays ?? 30])
-  return { id: club!.id, name }
+  const id = await insertRow('clubs', {
+    name, tagPrefix: o.tagPrefix ?? 'TST', timeZone: o.timeZone ?? CLUB_TIME_ZONE,
+    publicUrl: o.publicUrl ?? 'http://127.0.0.1', graceDays: o.graceDays ?? 30,
+  }, o.db)
+  return { id, name }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Every other record the tests create or put into a state, one factory or state helper per kind.
+// Overrides are named like the columns (camelCase); timestamps take a Date, NOW, ago('7 days') or
+// fromNow('1 hour') (the database's clock), so a test says "a week ago" instead of writing SQL.
+
+/** A moment relative to the database's now(): `interval` after it, or before it when `before`. */
+export interface Relative { interval: string, before?: boolean }
+/** A timestamp override: a Date, or a moment relative to the database's clock. */
+export type When = Date | Relative
+/** The database's now(). */
+export const NOW: Relative = { interval: '0 seconds' }
+/** `interval` before the database's now(), e.g. ago('30 days 1 minute'). */
+// Not '-7 days 1 minute': PostgreSQL signs each part of an interval on its own (-7 days +1 minute).
+export const ago = (interval: string): Relative => ({ interval, before: true })
+/** `interval` after the database's now(), e.g. fromNow('1 hour'). */
+export const fromNow = (interval: string): Relative => ({ interval })
+
+const isRelative = (v: unknown): v is Relative =>
+  typeof v === 'object' && v !== null && !(v instanceof Date) && !Array.isArray(v) && typeof (v as Relative).interval === 'string'
+const column = (key: string) => key.replace(/[A-Z]/g, c => `_${c.toLowerCase()}`)
+
+/** `$n` (or `now() + $n::interval`) for `value`, pushing its parameter. */
+function placeholder(value: unknown, params: unknown[]): string {
+  params.push(isRelative(value) ? value.interval : value)
+  if (!isRelative(value)) return `$${params.length}`
+  return `now() ${value.before ? '-' : '+'} $${params.length}::interval`
+}
+
+/** Inserts one row (undefined values take the column default) and returns its id. */
+async function insertRow(table: string, values: Record<string, unknown>, db?: string): Promise<string> {
+  const params: unknown[] = []
+  const entries = Object.entries(values).filter(([, v]) => v !== undefined)
+  const [row] = await sql<{ id: string }>(`INSERT INTO ${table} (${entries.map(([k]) => column(k)).join(', ')})
+    VALUES (${entries.map(([, v]) => placeholder(v, params)).join(', ')}) RETURNING id`, params, db)
+  return row!.id
+}
+
+/** Which rows a state helper changes: one id, several ids, column values (a list = any of them), or 'all'. */
+export type Where = string | string[] | Record<string, unknown> | 'all'
+
+/** Sets `values` on the rows of `table` that `where` picks; returns the ids changed. */
+async function updateRows(table: string, where: Where, values: object, db?: string): Promise<string[]> {
+  const params: unknown[] = []
+  const set = Object.entries(values).filter(([, v]) => v !== undefined)
+    .map(([k, v]) => `${column(k)} = ${placeholder(v, params)}`)
+  if (!set.length) throw new Error(`nothing to set on ${table}`)
+  const filter = where === 'all' ? {} : typeof where === 'string' || Array.isArray(where) ? { id: where } : where
+  const conditions = Object.entries(filter).map(([k, v]) =>
+    Array.isArray(v) ? `${column(k)} = ANY(${placeholder(v, params)})` : `${column(k)} = ${placeholder(v, params)}`)
+  const rows = await sql<{ id: string }>(`UPDATE ${table} SET ${set.join(', ')}
+    ${conditions.length ? `WHERE ${conditions.join(' AND ')}` : ''} RETURNING id`, params, db)
+  return rows.map(r => r.id)
+}
+
+export interface UserOverrides {
+  email?: string
+  name?: string
+  passwordHash?: string
+  /** Default: confirmed now. */
+  emailVerifiedAt?: When | null
+  db?: string
+}
+
+/** An account without a membership; the password is FACTORY_PASSWORD unless a hash is given. */
+export async function makeUser(o: UserOverrides = {}): Promise<{ userId: string, email: string, name: string, password: string }> {
+  const tag = randomUUID().slice(0, 8)
+  const email = o.email ?? `user-${tag}@test.hoopwise.example`
+  const name = o.name ?? `Test User ${tag}`
+  const userId = await insertRow('users', {
+    email, name, passwordHash: o.passwordHash ?? await passwordHash(),
+    emailVerifiedAt: o.emailVerifiedAt === undefined ? NOW : o.emailVerifiedAt,
+  }, o.db)
+  return { userId, email, name, password: FACTORY_PASSWORD }
+}
+
+/** An account's state: `setUser(m.userId, { emailVerifiedAt: NOW })`. */
+export function setUser(where: Where, o: { email?: string, name?: string, passwordHash?: string, emailVerifiedAt?: When | null }, db?: string) {
+  return updateRows('users', where, o, db)
+}
+
+/** The membership columns a test may set (camelCase column names). */
+export interface MembershipState {
+  roles?: Role[]
+  approvedAt?: When | null
+  paidThrough?: string | null
+  suspendedAt?: When | null
+  suspendedReason?: string | null
+  resignedAt?: When | null
+  birthDate?: string | null
+  guardianName?: string | null
+  guardianEmail?: string | null
+  guardianConsentAt?: When | null
+  phone?: string | null
+  unitPreference?: 'bar' | 'psi'
+  noticeOptOuts?: string[]
+}
+
+/** A membership's state: `setMembership(m.memberId, { suspendedAt: ago('1 day') })`; returns the ids changed. */
+export function setMembership(where: Where, o: MembershipState, db?: string) {
+  return updateRows('memberships', where, o, db)
+}
+
+/** A waiver version of `clubId` (default the next version, published now); returns its id and version. */
+export async function makeWaiver(o: { clubId: string, version?: number, title?: string, body?: string, publishedBy?: string, db?: string }): Promise<{ waiverId: string, version: number }> {
+  const version = o.version ?? ((await sql<{ v: number }>('SELECT coalesce(max(version), 0)::int + 1 AS v FROM waivers WHERE club_id = $1', [o.clubId], o.db))[0]!.v)
+  const waiverId = await insertRow('waivers', {
+    clubId: o.clubId, version, title: o.title ?? `Test waiver v${version}`,
+    body: o.body ?? 'Fills are remote. Eye protection at the pad. (test waiver)', publishedBy: o.publishedBy,
+  }, o.db)
+  return { waiverId, version }
+}
+
+/** The member's acceptance of a waiver (default: their club's newest version); null when the club has none. */
+export async function acceptWaiver(o: { memberId: string, waiverId?: string, typedName?: string, acceptedAt?: When, db?: string }): Promise<{ acceptanceId: string } | null> {
+  const [m] = await sql<{ club_id: string, name: string, waiver_id: string | null }>(`SELECT m.club_id, u.name,
+      (SELECT id FROM waivers w WHERE w.club_id = m.club_id ORDER BY version DESC LIMIT 1) AS waiver_id
+    FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $1`, [o.memberId], o.db)
+  const waiverId = o.waiverId ?? m!.waiver_id
+  if (!waiverId) return null
+  const acceptanceId = await insertRow('waiver_acceptances', {
+    clubId: m!.club_id, waiverId, membershipId: o.memberId, typedName: o.typedName ?? m!.name, acceptedAt: o.acceptedAt,
+  }, o.db)
+  return { acceptanceId }
+}
+
+export type NoticeStatus = 'queued' | 'sending' | 'sent' | 'failed' | 'skipped'
+
+/** The notice columns a test may set. */
+export interface NoticeState {
+  status?: NoticeStatus
+  attempts?: number
+  deferrals?: number
+  lastError?: string | null
+  nextAttemptAt?: When
+  lockedUntil?: When | null
+  claimId?: string | null
+  sentAt?: When | null
+}
+
+export interface NoticeOverrides extends NoticeState {
+  memberId: string
+  /** Default 'dues_reminder'. */
+  kind?: string
+  subjectKey?: string
+  /** Default today at the club. */
+  dueOn?: string
+  /** Default the member's e-mail. */
+  toEmail?: string
+  subject?: string
+  textBody?: string
+  htmlBody?: string
+  db?: string
+}
+
+/** A notice for a member (queued, due today, unless overridden); returns its id. */
+export async function makeNotice(o: NoticeOverrides): Promise<{ noticeId: string }> {
+  const [m] = await sql<{ club_id: string, email: string }>(
+    'SELECT m.club_id, u.email FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $1', [o.memberId], o.db)
+  const { memberId, db, kind, subjectKey, dueOn, toEmail, subject, textBody, htmlBody, ...state } = o
+  const noticeId = await insertRow('notices', {
+    clubId: m!.club_id, membershipId: memberId, kind: kind ?? 'dues_reminder', subjectKey: subjectKey ?? 'test',
+    dueOn: dueOn ?? clubDay(0), toEmail: toEmail ?? m!.email, subject: subject ?? 'Test notice',
+    textBody: textBody ?? 'Test notice', htmlBody: htmlBody ?? '<p>Test notice</p>', ...state,
+  }, db)
+  return { noticeId }
+}
+
+/** Notices' state: `setNotice(id, { status: 'failed', lastError: '550 …' })` or `setNotice({ membershipId }, …)`. */
+export function setNotice(where: Where, o: NoticeState, db?: string) {
+  return updateRows('notices', where, o, db)
+}
+
+/** The ids of a member's notices, oldest first. */
+export async function noticesOf(memberId: string, db?: string): Promise<string[]> {
+  return (await sql<{ id: string }>('SELECT id FROM notices WHERE membership_id = $1 ORDER BY created_at, id', [memberId], db)).map(r => r.id)
+}
+
+/** The stored hash of a one-time link's token (only hashes are kept). */
+export const tokenHash = (token: string) => createHash('sha256').update(token).digest('hex')
+
+/** A one-time link for an account (default: e-mail confirmation, valid for a day); returns its id and token. */
+export async function makeActionToken(o: { userId: string, memberId?: string, purpose?: 'verify_email' | 'reset_password' | 'guardian_consent', token?: string, expiresAt?: When, usedAt?: When | null, db?: string }): Promise<{ tokenId: string, token: string }> {
+  const token = o.token ?? randomBytes(32).toString('base64url')
+  const tokenId = await insertRow('action_tokens', {
+    userId: o.userId, membershipId: o.memberId, purpose: o.purpose ?? 'verify_email', tokenHash: tokenHash(token),
+    expiresAt: o.expiresAt ?? fromNow('1 day'), usedAt: o.usedAt,
+  }, o.db)
+  return { tokenId, token }
+}
+
+/** One-time links' state, picked by id or by their token: `setActionToken({ token }, { expiresAt: ago('1 minute') })`. */
+export function setActionToken(where: Where | { token: string }, o: { expiresAt?: When, usedAt?: When | null }, db?: string) {
+  const picked = typeof where === 'object' && !Array.isArray(where) && 'token' in where ? { tokenHash: tokenHash(String(where.token)) } : where
+  return updateRows('action_tokens', picked, o, db)
+}
+
+/** The session columns a test may set. */
+export interface SessionState { createdAt?: When, lastSeenAt?: When, revokedAt?: When | null, revokeReason?: string | null }
+
+/** A server-side session row for a member (no cookie: sign in for one); returns its id. */
+export async function makeSession(o: SessionState & { userId: string, memberId: string, address?: string, userAgent?: string, db?: string }): Promise<{ sessionId: string }> {
+  const { userId, memberId, address, userAgent, db, ...state } = o
+  const sessionId = await insertRow('sessions', { userId, membershipId: memberId, address: address ?? '127.0.0.1', userAgent: userAgent ?? 'factory', ...state }, db)
+  return { sessionId }
+}
+
+/** Sessions' state: `setSession(id, { lastSeenAt: ago('7 days 1 minute') })`; returns the ids changed. */
+export function setSession(where: Where, o: SessionState, db?: string) {
+  return updateRows('sessions', where, o, db)
+}
+
+export interface AuditOverrides {
+  clubId?: string
+  actorMemberId?: string | null
+  actorName?: string | null
+  action?: string
+  subjectType?: string
+  subjectId?: string | null
+  before?: unknown
+  after?: unknown
+  reason?: string | null
+  db?: string
+}
+
+/** An audit row (appended like the server does; the table refuses changes afterwards); returns its id. */
+export async function makeAuditEvent(o: AuditOverrides = {}): Promise<{ auditId: string }> {
+  const json = (v: unknown) => (v === undefined || v === null ? v : JSON.stringify(v))
+  const auditId = await insertRow('audit_events', {
+    clubId: o.clubId ?? await demoClubId(o.db),
+    actorMembershipId: o.actorMemberId,
+    // The name is kept only for actors without a membership (the system, a guardian).
+    actorName: o.actorName !== undefined ? o.actorName : o.actorMemberId ? undefined : 'System',
+    action: o.action ?? 'test.event', subjectType: o.subjectType ?? 'test', subjectId: o.subjectId,
+    before: json(o.before), after: json(o.after), reason: o.reason,
+  }, o.db)
+  return { auditId }
+}
+
+/** A sign-in/sign-up/e-mail count as the rate limiter stores it; expires `expiresInMs` from now. */
+export async function makeRateLimit(o: { key: string, points: number, expiresInMs?: number, db?: string }): Promise<{ key: string }> {
+  await sql('INSERT INTO rate_limits (key, points, expire) VALUES ($1, $2, $3) ON CONFLICT (key) DO UPDATE SET points = $2, expire = $3',
+    [o.key, o.points, Date.now() + (o.expiresInMs ?? 60 * 60 * 1000)], o.db)
+  return { key: o.key }
 }

@@ -1,5 +1,5 @@
 // The API's routes, discovered from the method-suffixed files under server/api.
-import { readdirSync, statSync } from 'node:fs'
+import { existsSync, readdirSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { ROOT } from '../../scripts/lib/config.mjs'
 
@@ -19,7 +19,32 @@ export function discoverRoutes(): string[] {
   }).sort()
 }
 
-/** The concrete path for a route pattern, with `[id]` filled in. */
-export function concretePath(pattern: string, id: string): string {
-  return pattern.replace(/\[id\]/g, id)
+/**
+ * The concrete path for a route pattern: every parameter (`[id]`, `[token]`, `[...slug]` …, at any
+ * depth) filled from `values` by its name; a bare string fills `[id]`. A parameter without a value throws,
+ * so a route with a new kind of parameter fails its test until the test says what to put there.
+ */
+export function concretePath(pattern: string, values: string | Record<string, string>): string {
+  const byName = typeof values === 'string' ? { id: values } : values
+  return pattern.replace(/\[(?:\.\.\.)?([^\]]+)\]/g, (_, name: string) => {
+    const value = byName[name]
+    if (value === undefined) throw new Error(`${pattern}: no value for the route parameter [${name}]`)
+    return encodeURIComponent(value)
+  })
+}
+
+/** The route parameters' names in a pattern, e.g. `/api/a/[id]/b/[token]` → ['id', 'token']. */
+export function routeParams(pattern: string): string[] {
+  return [...pattern.matchAll(/\[(?:\.\.\.)?([^\]]+)\]/g)].map(m => m[1]!)
+}
+
+/** The handler file of a route "METHOD /api/path" (index files included). */
+export function routeFile(route: string): string {
+  const [method, path] = route.split(' ') as [string, string]
+  const rel = path.replace(/^\/api\/?/, '')
+  const base = join(ROOT, 'server/api')
+  const candidates = [`${rel}.${method.toLowerCase()}.ts`, `${rel ? `${rel}/` : ''}index.${method.toLowerCase()}.ts`].map(f => join(base, f))
+  const found = candidates.find(f => existsSync(f))
+  if (!found) throw new Error(`no handler file for ${route}`)
+  return found
 }

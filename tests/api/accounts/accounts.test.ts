@@ -1,10 +1,10 @@
-import { createHash, randomUUID } from 'node:crypto'
+import { randomUUID } from 'node:crypto'
 import pg from 'pg'
 import { describe, it, expect, inject } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { linkIn, mailsTo, waitForMail, type CaughtMail } from '../../support/mail'
 import { sql } from '../../support/db'
-import { clubDay, makeMember, FACTORY_PASSWORD } from '../../support/factories'
+import { ago, clubDay, makeMember, setActionToken, tokenHash as hashOf, FACTORY_PASSWORD } from '../../support/factories'
 import { postFrom } from '../../support/from-address'
 import { testEnv } from '../../support/test-env'
 
@@ -21,7 +21,6 @@ const uniqueEmail = (label: string) => `${label}-${randomUUID().slice(0, 8)}@tes
 const adultSignup = (email: string) => ({ name: 'Nell Tidewater', email, password: 'a-long-password-1', birthDate: clubDay(-30 * 365) })
 const juniorSignup = (email: string) => ({ ...adultSignup(email), name: 'Pip Tidewater', birthDate: clubDay(-14 * 365) })
 const tokenOf = (link: URL) => link.searchParams.get('token')!
-const hashOf = (token: string) => createHash('sha256').update(token).digest('hex')
 
 async function userRows(email: string) {
   return sql<{ id: string, email_verified_at: Date | null, password_hash: string }>(
@@ -29,8 +28,7 @@ async function userRows(email: string) {
 }
 
 async function expireToken(token: string) {
-  const rows = await sql(`UPDATE action_tokens SET expires_at = now() - interval '1 minute' WHERE token_hash = $1 RETURNING id`, [hashOf(token)])
-  expect(rows).toHaveLength(1)
+  expect(await setActionToken({ token }, { expiresAt: ago('1 minute') })).toHaveLength(1)
 }
 
 /** Waits until `count` messages to `address` match `subject`; returns them oldest first. */

@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest'
 import { api } from '../../support/http'
 import { linkIn, mailsTo, waitForMail } from '../../support/mail'
 import { sql } from '../../support/db'
-import { makeMember } from '../../support/factories'
+import { makeMember, setMembership } from '../../support/factories'
 
 const RESET_SUBJECT = /^Reset your .* password/
 const CHANGED_SUBJECT = /^Your .* password was changed/
@@ -11,7 +11,7 @@ describe('after a password reset', () => {
   it('e-mails "your password was changed", a kind the member cannot switch off', async () => {
     const member = await makeMember()
     // Even a member who switched off every optional e-mail gets it.
-    await sql(`UPDATE memberships SET notice_opt_outs = ARRAY['dues_reminder'] WHERE id = $1`, [member.memberId])
+    await setMembership(member.memberId, { noticeOptOuts: ['dues_reminder'] })
     expect((await api('/api/auth/password-reset-request', { body: { email: member.email } })).status).toBe(200)
     const token = linkIn(await waitForMail(member.email, RESET_SUBJECT), '/reset-password').searchParams.get('token')!
     expect((await mailsTo(member.email)).filter(m => CHANGED_SUBJECT.test(m.subject))).toHaveLength(0)

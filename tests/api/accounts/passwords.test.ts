@@ -4,13 +4,14 @@ import { Hash } from '@adonisjs/hash'
 import { Scrypt } from '@adonisjs/hash/drivers/scrypt'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay, makeMember, FACTORY_PASSWORD } from '../../support/factories'
+import { clubDay, makeMember, setUser, FACTORY_PASSWORD } from '../../support/factories'
 import { waitForMail, linkIn } from '../../support/mail'
 import { postFrom } from '../../support/from-address'
 import { serverEnv } from '../../support/test-env'
 import { startAppServer } from '../../../scripts/lib/processes.mjs'
 import { ROOT, TEST } from '../../../scripts/lib/config.mjs'
-import { COMMON_PASSWORD_MESSAGE } from '../../../server/services/accounts/passwords'
+// The words a member reads when the password is on the common-password list.
+const COMMON_PASSWORD_MESSAGE = 'This password is among the most common ones and easy to guess. Choose another.'
 
 // New passwords (12 characters, not a common one), the scrypt parameters of stored hashes, the
 // re-hash of an old one at sign-in, and the cap on hashes running at once (on a server of its own).
@@ -63,7 +64,7 @@ describe('hashes with older parameters', () => {
   it('re-hashes an old-parameter hash with the new parameters at the next sign-in', async () => {
     const member = await makeMember()
     const old = await new Hash(new Scrypt({ cost: 16384, blockSize: 8, parallelization: 1 })).make(FACTORY_PASSWORD)
-    await sql('UPDATE users SET password_hash = $1 WHERE id = $2', [old, member.userId])
+    await setUser(member.userId, { passwordHash: old })
     expect((await api('/api/auth/login', { body: { email: member.email, password: 'not-the-password-1' } })).status).toBe(401)
     expect(await hashOf(member.userId)).toBe(old) // a wrong password changes nothing
     expect((await api('/api/auth/login', { body: { email: member.email, password: FACTORY_PASSWORD } })).status).toBe(200)

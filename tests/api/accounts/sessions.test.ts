@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { linkIn, waitForMail } from '../../support/mail'
 import { sql } from '../../support/db'
-import { makeMember, type MadeMember } from '../../support/factories'
+import { ago, makeMember, setSession, type MadeMember } from '../../support/factories'
 
 // Sessions kept in PostgreSQL: a copied cookie stops working once its session has ended, whichever
 // way it ended. Lifetimes are tested by ageing the session rows (defaults: 30 days absolute, 7 idle).
@@ -82,8 +82,8 @@ describe('sessions that end', () => {
     const m = await makeMember()
     const [young, old] = [await signIn(m), await signIn(m)]
     const [youngId, oldId] = (await sql<{ id: string }>('SELECT id FROM sessions WHERE user_id = $1 ORDER BY created_at', [m.userId])).map(r => r.id)
-    await sql(`UPDATE sessions SET created_at = now() - interval '29 days 23 hours' WHERE id = $1`, [youngId])
-    await sql(`UPDATE sessions SET created_at = now() - interval '30 days 1 minute' WHERE id = $1`, [oldId])
+    await setSession(youngId!, { createdAt: ago('29 days 23 hours') })
+    await setSession(oldId!, { createdAt: ago('30 days 1 minute') })
     expect((await api('/api/me/standing', { as: young })).status).toBe(200)
     await expectEnded(old)
   })
@@ -92,8 +92,8 @@ describe('sessions that end', () => {
     const m = await makeMember()
     const [recent, idle] = [await signIn(m), await signIn(m)]
     const [recentId, idleId] = (await sql<{ id: string }>('SELECT id FROM sessions WHERE user_id = $1 ORDER BY created_at', [m.userId])).map(r => r.id)
-    await sql(`UPDATE sessions SET created_at = now() - interval '10 days', last_seen_at = now() - interval '6 days 23 hours' WHERE id = $1`, [recentId])
-    await sql(`UPDATE sessions SET created_at = now() - interval '10 days', last_seen_at = now() - interval '7 days 1 minute' WHERE id = $1`, [idleId])
+    await setSession(recentId!, { createdAt: ago('10 days'), lastSeenAt: ago('6 days 23 hours') })
+    await setSession(idleId!, { createdAt: ago('10 days'), lastSeenAt: ago('7 days 1 minute') })
     expect((await api('/api/me/standing', { as: recent })).status).toBe(200)
     await expectEnded(idle)
     // Using the first one moved its "last seen" on, so it is no longer near its idle timeout.
@@ -106,12 +106,12 @@ describe('sessions that end', () => {
     const cookie = await signIn(m)
     const id = await newestSession(m.userId)
     const lastSeen = async () => (await sql<{ at: string }>('SELECT last_seen_at::text AS at FROM sessions WHERE id = $1', [id]))[0]!.at
-    await sql(`UPDATE sessions SET last_seen_at = now() - interval '2 minutes' WHERE id = $1`, [id])
+    await setSession(id, { lastSeenAt: ago('2 minutes') })
     const before = await lastSeen()
     for (let i = 0; i < 3; i++) expect((await api('/api/me/standing', { as: cookie })).status).toBe(200)
     expect(await lastSeen()).toBe(before)
 
-    await sql(`UPDATE sessions SET last_seen_at = now() - interval '10 minutes' WHERE id = $1`, [id])
+    await setSession(id, { lastSeenAt: ago('10 minutes') })
     expect((await api('/api/me/standing', { as: cookie })).status).toBe(200)
     const [fresh] = await sql<{ recent: boolean }>(`SELECT last_seen_at > now() - interval '1 minute' AS recent FROM sessions WHERE id = $1`, [id])
     expect(fresh!.recent).toBe(true)

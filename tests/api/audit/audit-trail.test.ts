@@ -2,16 +2,13 @@ import { describe, expect, it } from 'vitest'
 import pg from 'pg'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { demoClubId, makeMember } from '../../support/factories'
+import { makeAuditEvent, makeMember } from '../../support/factories'
 import { testEnv } from '../../support/test-env'
-import type { AuditEventDto } from '../../../shared/types/audit'
-import type { Paged } from '../../../shared/types/common'
+import type { AuditEventDto, Paged } from '../../../shared/types/dto'
 
 describe('the audit trail is append-only in the database', () => {
   it('refuses plain SQL UPDATE, DELETE and TRUNCATE, leaving the row as it was', async () => {
-    const [row] = await sql<{ id: string }>(`INSERT INTO audit_events (club_id, actor_name, action, subject_type, reason)
-      VALUES ($1, 'Trigger test', 'test.append_only', 'test', 'original') RETURNING id`, [await demoClubId()])
-    const id = row!.id
+    const { auditId: id } = await makeAuditEvent({ actorName: 'Trigger test', action: 'test.append_only', reason: 'original' })
     await expect(sql(`UPDATE audit_events SET reason = 'rewritten' WHERE id = $1`, [id])).rejects.toThrow(/append-only: UPDATE refused/)
     await expect(sql(`DELETE FROM audit_events WHERE id = $1`, [id])).rejects.toThrow(/append-only: DELETE refused/)
     // TRUNCATE inside a transaction that is rolled back whatever happens, so other files' rows are safe.

@@ -1,8 +1,8 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
-import { makeClub, makeMember, type MadeMember } from '../../support/factories'
+import { fromNow, makeClub, makeMember, makeNotice, type MadeMember } from '../../support/factories'
 import { sql } from '../../support/db'
-import type { DashboardDto } from '../../../shared/types/dashboard'
+import type { DashboardDto } from '../../../shared/types/dto'
 import type { DemoRole } from '../../support/test-env'
 
 async function signInAs(m: MadeMember): Promise<string> {
@@ -68,10 +68,9 @@ describe('club-wide counts come from the member\'s own club only', () => {
     ])
     ;[admin, safety] = await Promise.all([signInAs(a), signInAs(s)])
     // Queued far ahead, so no queue run sends them while the test looks; 'failed' is never picked up.
-    await sql(`INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body, status, next_attempt_at)
-      SELECT $1, m.id, 'test_kind', x.n::text, current_date, 'x@test.hoopwise.example', 's', 't', 'h', x.st, now() + interval '1 day'
-      FROM memberships m, unnest(ARRAY['queued', 'failed', 'failed', 'sent']) WITH ORDINALITY AS x(st, n)
-      WHERE m.club_id = $1 AND m.roles @> ARRAY['admin']`, [clubId])
+    await Promise.all((['queued', 'failed', 'failed', 'sent'] as const).map((status, n) => makeNotice({
+      memberId: a.memberId, kind: 'test_kind', subjectKey: String(n), status, nextAttemptAt: fromNow('1 day'),
+    })))
   })
 
   it('counts members by status with the same rules as the status function', async () => {

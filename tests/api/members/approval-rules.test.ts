@@ -2,9 +2,8 @@ import { randomUUID } from 'node:crypto'
 import { beforeAll, describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay, makeClub, makeMember, type MadeMember, type MemberOverrides } from '../../support/factories'
-import type { CurrentWaiverDto } from '../../../shared/types/waivers'
-import type { DashboardDto } from '../../../shared/types/dashboard'
+import { clubDay, makeClub, makeMember, NOW, setMembership, setUser, type MadeMember, type MemberOverrides } from '../../support/factories'
+import type { CurrentWaiverDto, DashboardDto } from '../../../shared/types/dto'
 
 // Accepting the waiver and being approved need a confirmed e-mail; approving a junior waits for the
 // guardian's consent. Each test makes its own members and confirms or consents through SQL, as the
@@ -15,8 +14,8 @@ const approve = (id: string, as = 'admin') =>
 const codesOf = (res: { body: { data?: { reasons?: { code: string }[] } } }) => res.body.data?.reasons?.map(r => r.code)
 const approvedAt = async (id: string) => (await sql<{ approved_at: Date | null }>('SELECT approved_at FROM memberships WHERE id = $1', [id]))[0]!.approved_at
 const approvalEvents = (id: string) => sql(`SELECT id FROM audit_events WHERE subject_id = $1 AND action = 'member.approve'`, [id])
-const confirmEmail = (m: MadeMember) => sql('UPDATE users SET email_verified_at = now() WHERE id = $1', [m.userId])
-const giveConsent = (m: MadeMember) => sql('UPDATE memberships SET guardian_consent_at = now() WHERE id = $1', [m.memberId])
+const confirmEmail = (m: MadeMember) => setUser(m.userId, { emailVerifiedAt: NOW })
+const giveConsent = (m: MadeMember) => setMembership(m.memberId, { guardianConsentAt: NOW })
 
 const signUp = (o: MemberOverrides = {}) => makeMember({ approved: false, paidDays: null, ...o })
 const junior = (o: MemberOverrides = {}) => signUp({

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { makeMember, clubDay } from '../../support/factories'
+import { fromNow, makeClub, makeMember, makeNotice, clubDay } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
 import { waitForMail, linkIn, mailsTo } from '../../support/mail'
 
@@ -164,13 +164,11 @@ describe('limits on membership actions', () => {
   it('treats a membership of another club as missing (404), and an id that is not one as well', async () => {
     const tag = randomUUID().slice(0, 8)
     const prefix = Array.from({ length: 5 }, () => String.fromCharCode(65 + Math.floor(Math.random() * 26))).join('')
-    const [club] = await sql<{ id: string }>(`INSERT INTO clubs (name, tag_prefix, time_zone, public_url)
-      VALUES ($1, $2, 'Europe/Paris', 'https://other.example') RETURNING id`, [`Other Club ${tag}`, prefix])
-    const [user] = await sql<{ id: string }>(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, 'x') RETURNING id`,
-      [`other-${tag}@test.hoopwise.example`, `Outsider ${tag}`])
-    const [other] = await sql<{ id: string }>(`INSERT INTO memberships (club_id, user_id, paid_through) VALUES ($1, $2, $3) RETURNING id`,
-      [club!.id, user!.id, clubDay(100)])
-    const id = other!.id
+    const club = await makeClub({ name: `Other Club ${tag}`, tagPrefix: prefix, timeZone: 'Europe/Paris', publicUrl: 'https://other.example' })
+    const { memberId: id } = await makeMember({
+      clubId: club.id, email: `other-${tag}@test.hoopwise.example`, name: `Outsider ${tag}`, passwordHash: 'x',
+      verified: false, approved: false, paidDays: 100, birthDate: null, acceptWaiver: false,
+    })
     expect((await api(`/api/members/${id}`, { as: 'admin' })).status).toBe(404)
     for (const action of ['approve', 'suspend', 'reinstate', 'resign', 'rejoin']) expect((await post(id, action)).status).toBe(404)
     expect((await api(`/api/members/${id}`, { method: 'PATCH', as: 'admin', body: { name: 'Renamed' } })).status).toBe(404)
@@ -403,11 +401,11 @@ describe('a junior\'s guardian and their consent', () => {
     const old = guardianAddress('queued')
     const m = await junior({ guardianEmail: old })
     // A consent e-mail waiting in the queue (due later, so no run sends it meanwhile), its link in the body.
-    const waiting = async (subjectKey: string) => (await sql<{ id: string }>(`
-      INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body, next_attempt_at)
-      SELECT club_id, id, 'guardian_consent', $2, $3, $4, 'Consent asked (test)', 'Open /guardian-consent?token=waiting-token-1',
-        '<a href="/guardian-consent?token=waiting-token-1">Consent</a>', now() + interval '1 hour'
-      FROM memberships WHERE id = $1 RETURNING id`, [m.memberId, subjectKey, clubDay(0), old]))[0]!.id
+    const waiting = async (subjectKey: string) => (await makeNotice({
+      memberId: m.memberId, kind: 'guardian_consent', subjectKey, toEmail: old, subject: 'Consent asked (test)',
+      textBody: 'Open /guardian-consent?token=waiting-token-1', htmlBody: '<a href="/guardian-consent?token=waiting-token-1">Consent</a>',
+      nextAttemptAt: fromNow('1 hour'),
+    })).noticeId
     const notice = (id: string) => sql<{ status: string, last_error: string | null, text_body: string, html_body: string }>(
       'SELECT status, last_error, text_body, html_body FROM notices WHERE id = $1', [id])
 

@@ -2,8 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { clubDay, makeMember, type MadeMember, type MemberOverrides } from '../../support/factories'
 import { sql } from '../../support/db'
-import { formatCalendarDate } from '../../../shared/utils/dates'
-import type { MemberDto, StandingDto } from '../../../shared/types/members'
+import type { MemberDto, StandingDto } from '../../../shared/types/dto'
 
 async function signInAs(m: MadeMember): Promise<string> {
   const res = await api('/api/auth/login', { body: { email: m.email, password: m.password } })
@@ -66,7 +65,10 @@ describe('GET /api/me/standing', () => {
     const { standing } = await standingOf({ paidDays: -5 })
     expect(standing.member.status).toBe('grace')
     expect(standing.daysToExpiry).toBe(-5)
-    expect(standing.attention.find(a => a.code === 'DUES_GRACE')?.message).toContain(formatCalendarDate(clubDay(25)))
+    // Paid through 5 days ago + 30 days' grace = 25 days from today, written "D Month YYYY".
+    const [year, month, day] = clubDay(25).split('-').map(Number) as [number, number, number]
+    const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December']
+    expect(standing.attention.find(a => a.code === 'DUES_GRACE')?.message).toContain(`${day} ${months[month - 1]} ${year}`)
   })
 
   it('has nothing but the approval to wait for on a fresh, verified sign-up', async () => {

@@ -9,7 +9,7 @@ import { prepareDatabase } from '../../../scripts/lib/database.mjs'
 import { ROOT, TEST } from '../../../scripts/lib/config.mjs'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay } from '../../support/factories'
+import { makeMember, NOW, setNotice } from '../../support/factories'
 import { mailsTo } from '../../support/mail'
 import { testEnv, serverEnv, DEMO } from '../../support/test-env'
 import { signIn } from '../../support/global-setup'
@@ -52,13 +52,11 @@ afterAll(async () => {
 
 /** A member of the demo club in this file's database whose dues run out in 10 days. */
 async function memberDueSoon(): Promise<{ id: string, email: string }> {
-  const email = `outage-${Date.now()}@test.hoopwise.example`
-  const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`, [], databaseUrl)
-  const [user] = await sql<{ id: string }>(`INSERT INTO users (email, name, password_hash, email_verified_at)
-    VALUES ($1, 'Outage Test Member', 'not-a-hash', now()) RETURNING id`, [email], databaseUrl)
-  const [m] = await sql<{ id: string }>(`INSERT INTO memberships (club_id, user_id, approved_at, paid_through)
-    VALUES ($1, $2, now(), $3) RETURNING id`, [club!.id, user!.id, clubDay(10)], databaseUrl)
-  return { id: m!.id, email }
+  const m = await makeMember({
+    email: `outage-${Date.now()}@test.hoopwise.example`, name: 'Outage Test Member', passwordHash: 'not-a-hash',
+    paidDays: 10, birthDate: null, acceptWaiver: false, db: databaseUrl,
+  })
+  return { id: m.memberId, email: m.email }
 }
 
 interface Row { status: string, attempts: number, deferrals: number, last_error: string | null, later: boolean }
@@ -87,7 +85,7 @@ describe('SMTP down, then up', () => {
     expect((await reminderOf(member.id))[0]!.deferrals).toBe(queued!.deferrals)
 
     catcher = await startMailCatcher({ smtpPort: SMTP_PORT, webPort: WEB_PORT, mailDir })
-    await sql(`UPDATE notices SET next_attempt_at = now() WHERE membership_id = $1`, [member.id], databaseUrl)
+    await setNotice({ membershipId: member.id }, { nextAttemptAt: NOW }, databaseUrl)
     const up = await run()
     expect(up.status).toBe(200)
     expect(up.body.sent).toBe(1)

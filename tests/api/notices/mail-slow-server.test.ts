@@ -1,6 +1,7 @@
 // A mail server slower than the notice lease: against an app server and database of this file's own
 // and a small SMTP server written here, which holds its reply to each message for longer than the
 // (shortened) lease. Two queue runs at once must still deliver every notice exactly once.
+import { randomUUID } from 'node:crypto'
 import { createServer, type Server, type Socket } from 'node:net'
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import { startAppServer } from '../../../scripts/lib/processes.mjs'
@@ -8,7 +9,7 @@ import { prepareDatabase } from '../../../scripts/lib/database.mjs'
 import { ROOT, TEST } from '../../../scripts/lib/config.mjs'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay } from '../../support/factories'
+import { ago, makeMember, makeNotice, setMembership, setNotice, type NoticeStatus } from '../../support/factories'
 import { testEnv, serverEnv, DEMO } from '../../support/test-env'
 import { signIn } from '../../support/global-setup'
 
@@ -103,8 +104,8 @@ beforeAll(async () => {
   const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`, [], databaseUrl)
   clubId = club!.id
   // Only this file's notices go to the slow server: the demo club's reminders are switched off.
-  await sql(`UPDATE memberships SET notice_opt_outs = array_append(notice_opt_outs, 'dues_reminder')`, [], databaseUrl)
-  await sql(`UPDATE notices SET status = 'skipped' WHERE status = 'queued'`, [], databaseUrl)
+  await setMembership('all', { noticeOptOuts: ['dues_reminder'] }, databaseUrl)
+  await setNotice({ status: 'queued' }, { status: 'skipped' }, databaseUrl)
 }, 180_000)
 
 afterAll(async () => {
@@ -114,16 +115,16 @@ afterAll(async () => {
 })
 
 /** A member of this file's demo club with one queued notice; returns the notice id and address. */
-async function memberWithNotice(tag: string, status = 'queued'): Promise<{ id: string, email: string }> {
-  const email = `slow-${tag}-${Date.now()}@test.hoopwise.example`
-  const [user] = await sql<{ id: string }>(`INSERT INTO users (email, name, password_hash, email_verified_at)
-    VALUES ($1, 'Slow Mail Member', 'not-a-hash', now()) RETURNING id`, [email], databaseUrl)
-  const [m] = await sql<{ id: string }>(`INSERT INTO memberships (club_id, user_id, approved_at, paid_through)
-    VALUES ($1, $2, now(), $3) RETURNING id`, [clubId, user!.id, clubDay(200)], databaseUrl)
-  const [n] = await sql<{ id: string }>(`INSERT INTO notices (club_id, membership_id, kind, due_on, to_email, subject, text_body, html_body, status)
-    VALUES ($1, $2, 'signup_approved', $3, $4, $5, 'Welcome', '<p>Welcome</p>', $6) RETURNING id`,
-  [clubId, m!.id, clubDay(0), email, `Welcome ${tag}`, status], databaseUrl)
-  return { id: n!.id, email }
+async function memberWithNotice(tag: string, status: NoticeStatus = 'queued'): Promise<{ id: string, email: string }> {
+  const m = await makeMember({
+    clubId, email: `slow-${tag}-${Date.now()}@test.hoopwise.example`, name: 'Slow Mail Member', passwordHash: 'not-a-hash',
+    paidDays: 200, birthDate: null, acceptWaiver: false, db: databaseUrl,
+  })
+  const { noticeId } = await makeNotice({
+    memberId: m.memberId, kind: 'signup_approved', subject: `Welcome ${tag}`, textBody: 'Welcome', htmlBody: '<p>Welcome</p>',
+    status, db: databaseUrl,
+  })
+  return { id: noticeId, email: m.email }
 }
 
 const deliveredTo = (email: string) => deliveries.filter(d => d.to.includes(email)).length
@@ -162,7 +163,7 @@ describe('a mail server slower than the lease', () => {
   it('never sends again a notice whose run stopped while sending it: it is marked failed for an admin to judge', async () => {
     // A run claimed this notice and stopped (or lost its database) before recording the outcome.
     const notice = await memberWithNotice('stopped', 'sending')
-    await sql(`UPDATE notices SET locked_until = now() - interval '1 minute', claim_id = gen_random_uuid() WHERE id = $1`, [notice.id], databaseUrl)
+    await setNotice(notice.id, { lockedUntil: ago('1 minute'), claimId: randomUUID() }, databaseUrl)
 
     const answer = await run()
     expect(answer.status).toBe(200)

@@ -1,10 +1,10 @@
 import { describe, it, expect, inject } from 'vitest'
 import { api, sessionCookieOf } from '../../support/http'
 import { sql } from '../../support/db'
-import { makeMember, clubDay, demoClubId, type MadeMember } from '../../support/factories'
+import { makeMember, makeNotice, setMembership, clubDay, type MadeMember, type NoticeOverrides } from '../../support/factories'
 import { mailsTo, waitForMail, linkIn, type CaughtMail } from '../../support/mail'
 import { testEnv } from '../../support/test-env'
-import { deriveOptOutKey, optOutToken } from '../../../server/services/notices/opt-out'
+import { deriveOptOutKey, optOutToken } from '../../../server/services/notice-opt-out'
 
 const REMINDER = /dues run out/
 
@@ -40,13 +40,9 @@ const settle = () => new Promise(r => setTimeout(r, 700))
 const run = () => api('/api/outbox/run', { method: 'POST', as: 'admin' })
 const reminderMails = async (m: MadeMember): Promise<CaughtMail[]> => (await mailsTo(m.email)).filter(x => REMINDER.test(x.subject))
 
-async function queuedNotice(member: MadeMember, fields: { status?: string, subjectKey?: string, attempts?: number, lastError?: string } = {}) {
-  const [row] = await sql<{ id: string }>(`INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject,
-      text_body, html_body, status, attempts, last_error)
-    VALUES ($1, $2, 'dues_reminder', $3, $4, $5, 'Your test dues run out soon', 'Test notice', '<p>Test notice</p>', $6, $7, $8) RETURNING id`,
-  [await demoClubId(), member.memberId, fields.subjectKey ?? 'test', clubDay(0), member.email, fields.status ?? 'queued',
-    fields.attempts ?? 0, fields.lastError ?? null])
-  return row!.id
+async function queuedNotice(member: MadeMember, fields: Pick<NoticeOverrides, 'status' | 'subjectKey' | 'attempts' | 'lastError'> = {}) {
+  const { noticeId } = await makeNotice({ memberId: member.memberId, subject: 'Your test dues run out soon', ...fields })
+  return noticeId
 }
 
 describe('the notice job', () => {
@@ -90,7 +86,7 @@ describe('the notice job', () => {
     const member = await makeMember()
     // Opted out first, then the row goes in: a background run kicked by another file could otherwise
     // take the notice in between and rightly send it.
-    await sql(`UPDATE memberships SET notice_opt_outs = ARRAY['dues_reminder'] WHERE id = $1`, [member.memberId])
+    await setMembership(member.memberId, { noticeOptOuts: ['dues_reminder'] })
     const id = await queuedNotice(member)
     expect((await run()).status).toBe(200)
     const [row] = await eventually(async () => {
@@ -124,7 +120,7 @@ describe('opting out', () => {
     expect(m!.notice_opt_outs).toEqual(['dues_reminder'])
 
     // They renew; the next period's reminder comes round: only the member who did not opt out gets it.
-    await sql('UPDATE memberships SET paid_through = $2 WHERE id = ANY ($1::uuid[])', [[optOut.memberId, control.memberId], clubDay(25)])
+    await setMembership([optOut.memberId, control.memberId], { paidThrough: clubDay(25) })
     expect((await run()).status).toBe(200)
     expect(await remindersOf([optOut])).toHaveLength(1)
     const controlRows = await remindersOf([control])
@@ -242,10 +238,11 @@ describe('the outbox', () => {
 describe('notices with a one-time link', () => {
   it('cannot be retried once failed: the link was removed, the member asks for a new one (422)', async () => {
     const member = await makeMember()
-    const [row] = await sql<{ id: string }>(`INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject,
-        text_body, html_body, status, attempts)
-      VALUES ($1, $2, 'password_reset', 'test', $3, $4, 'Reset (test)', 'token=removed', 'token=removed', 'failed', 10) RETURNING id`,
-    [await demoClubId(), member.memberId, clubDay(0), member.email])
+    const { noticeId } = await makeNotice({
+      memberId: member.memberId, kind: 'password_reset', subject: 'Reset (test)', textBody: 'token=removed', htmlBody: 'token=removed',
+      status: 'failed', attempts: 10,
+    })
+    const row = { id: noticeId }
     const res = await api(`/api/outbox/${row!.id}/retry`, { method: 'POST', as: 'admin' })
     expect(res.status).toBe(422)
     expect(res.body.data.reasons[0].code).toBe('LINK_REMOVED')
