@@ -2,22 +2,14 @@ import { QueryTypes } from 'sequelize'
 import { actorCan, type Actor } from '../utils/auth'
 import { loadStanding } from './standing'
 import { statusCaseSql } from './membership-status-sql'
-import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '../../shared/utils/membership-status'
+import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_WORDS, type MembershipStatus } from '../../shared/utils/membership-status'
+import type { NoticeStatus } from '../../shared/utils/notice-status'
 import type { DashboardDto, StandingDto } from '../../shared/types/dto'
 
 type Card = DashboardDto['cards'][number]
 
 // The status function as SQL (its one copy), with this file's replacements.
 const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
-
-const STATUS_HINTS: Record<MembershipStatus, string> = {
-  pending: 'Signed up, first dues not paid yet.',
-  active: 'Dues paid through today or later.',
-  grace: 'Dues ran out lately: can train, cannot fill or book.',
-  lapsed: 'Past the grace period: must renew.',
-  suspended: 'Suspended by the admin.',
-  resigned: 'Left the club.',
-}
 
 const days = (n: number) => `${n} day${n === 1 ? '' : 's'}`
 
@@ -33,7 +25,7 @@ function myCards(s: StandingDto): Card[] {
     ? { key: 'my-paid-through', title: 'Dues paid through', value: m.paidThrough, hint: s.daysToExpiry! >= 0 ? `${days(s.daysToExpiry!)} left.` : `Ran out ${days(-s.daysToExpiry!)} ago.`, to: '/standing', tone: s.daysToExpiry! > 30 ? 'ok' : 'attention', group: 'mine' }
     : { key: 'my-paid-through', title: 'Dues paid through', value: 'Never paid', hint: 'Your first dues make you an active member.', to: '/standing', tone: 'attention', group: 'mine' }
   return [
-    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_LABELS[m.status], hint: STATUS_HINTS[m.status], to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
+    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_WORDS[m.status].label, hint: MEMBERSHIP_STATUS_WORDS[m.status].meaning, to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
     {
       key: 'my-waiver',
       title: 'Waiver',
@@ -55,9 +47,9 @@ async function memberCards(clubId: string, today: string, graceDays: number): Pr
   const byStatus = new Map(rows.map(r => [r.status, r.n]))
   return MEMBERSHIP_STATUSES.map(status => ({
     key: `members-${status}`,
-    title: MEMBERSHIP_STATUS_LABELS[status],
+    title: MEMBERSHIP_STATUS_WORDS[status].label,
     value: byStatus.get(status) ?? 0,
-    hint: STATUS_HINTS[status],
+    hint: MEMBERSHIP_STATUS_WORDS[status].meaning,
     to: `/members?status=${status}`,
     tone: (status === 'grace' || status === 'lapsed') && byStatus.get(status) ? 'attention' : 'neutral',
     group: 'members',
@@ -88,10 +80,10 @@ async function approvalCard(clubId: string, today: string): Promise<Card> {
 
 /** notices.manage: queued and failed e-mails. */
 async function noticeCards(clubId: string): Promise<Card[]> {
-  const rows = await useDb().query<{ status: string, n: number }>(`
+  const rows = await useDb().query<{ status: NoticeStatus, n: number }>(`
     SELECT status, count(*)::int AS n FROM notices WHERE club_id = :clubId AND status IN ('queued', 'sending', 'failed')
     GROUP BY status`, { replacements: { clubId }, type: QueryTypes.SELECT })
-  const n = (s: string) => rows.find(r => r.status === s)?.n ?? 0
+  const n = (s: NoticeStatus) => rows.find(r => r.status === s)?.n ?? 0
   const waiting = n('queued') + n('sending')
   return [
     { key: 'notices-queued', title: 'E-mails waiting to go', value: waiting, hint: 'Queued notices the next run sends.', to: '/outbox?status=queued', tone: 'neutral', group: 'office' },
@@ -111,7 +103,7 @@ async function waiverCards(clubId: string, today: string, graceDays: number, cur
       { clubId, today, graceDays, version: currentVersion })
   return [
     { key: 'waiver-version', title: 'Waiver in force', value: currentVersion === null ? 'None' : `Version ${currentVersion}`, hint: currentVersion === null ? 'Publish the club\'s waiver.' : 'Publishing a new version asks everyone again.', to: '/waiver', tone: currentVersion === null ? 'attention' : 'neutral', group: 'safety' },
-    { key: 'waiver-missing', title: 'Members without the current waiver', value: missing, hint: 'Active and in-grace members who have not accepted it.', to: '/waiver', tone: missing ? 'attention' : 'ok', group: 'safety' },
+    { key: 'waiver-missing', title: 'Members without the current waiver', value: missing, hint: 'Active members and those in their grace period who have not accepted it.', to: '/waiver', tone: missing ? 'attention' : 'ok', group: 'safety' },
   ]
 }
 

@@ -1,5 +1,6 @@
 import type { Role } from '../utils/permissions'
 import type { MembershipStatus } from '../utils/membership-status'
+import type { NoticeStatus } from '../utils/notice-status'
 
 /** Plain objects the routes return. Never a model instance: no hashes or internal columns leak. */
 
@@ -82,7 +83,7 @@ export interface NoticeDto {
   toEmail: string
   subject: string
   dueOn: string
-  status: 'queued' | 'sending' | 'sent' | 'failed' | 'skipped'
+  status: NoticeStatus
   attempts: number
   nextAttemptAt: string
   lastError: string | null
