@@ -6,6 +6,7 @@ import { normaliseRoles, rolesCan, type Capability, type Role } from '../../shar
 import { futureBirthDateIssue, juniorGuardianIssues, type FieldIssue, type MemberEdit } from '../../shared/schemas/member'
 import type { MemberDto } from '../../shared/types/dto'
 import { approvalBlockers } from '../../shared/utils/approval'
+import type { AuditAction } from '../../shared/utils/audit-actions'
 import type { Actor } from '../utils/auth'
 import type { Reason } from '../utils/errors'
 import { changedFields, recordAudit } from './audit'
@@ -30,8 +31,8 @@ export type MembershipActionName = typeof MEMBERSHIP_ACTIONS[number]
 type Changes = Partial<Pick<Membership, 'approvedAt' | 'suspendedAt' | 'suspendedReason' | 'resignedAt'>>
 
 interface ActionRule {
-  /** The audit-trail action it records (a literal, so tests/unit/audit-actions.test.ts finds it). */
-  action: string
+  /** The audit-trail action it records. */
+  action: AuditAction
   /** Why the action is refused for this membership, or null when it may go ahead. */
   refusal: (m: Membership, status: MembershipStatus, actor: Actor) => Reason | null
   /** The columns the action sets. */
