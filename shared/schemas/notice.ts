@@ -1,7 +1,8 @@
 import { z } from 'zod'
+import { NOTICE_STATUSES } from '../utils/notice-status'
 import { PageQuerySchema } from './common'
 
-export const NOTICE_STATUSES = ['queued', 'sending', 'sent', 'failed', 'skipped'] as const
+export { NOTICE_STATUSES }
 
 export const OutboxQuerySchema = PageQuerySchema.extend({
   status: z.enum(NOTICE_STATUSES).optional(),

@@ -1,4 +1,5 @@
 import type { Paged } from './common'
+import type { NoticeStatus } from '../utils/notice-status'
 
 /** Notices (e-mails), the outbox and e-mail settings. Plain objects the routes return, never model instances. */
 
@@ -10,7 +11,7 @@ export interface NoticeDto {
   toEmail: string
   subject: string
   dueOn: string
-  status: 'queued' | 'sending' | 'sent' | 'failed' | 'skipped'
+  status: NoticeStatus
   attempts: number
   nextAttemptAt: string
   lastError: string | null

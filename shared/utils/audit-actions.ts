@@ -1,51 +1,84 @@
 /**
- * Readable labels for audit-trail actions (`area.verb`), for the audit page. Each capability that
- * records audit events appends its actions here; an action without a label shows its code.
+ * The audit trail's actions (`area.verb`): the one list of what the server may record, each with its
+ * words for the audit page. `recordAudit` takes an `AuditAction`, so an action missing here does not
+ * compile; the audit route's filter accepts exactly this list. Rows are never rewritten, so an action
+ * stays here once recorded.
  */
-export const AUDIT_ACTION_LABELS: Record<string, string> = {
-  'member.approve': 'Approved a sign-up',
-  'member.suspend': 'Suspended a membership',
-  'member.reinstate': 'Reinstated a membership',
-  'member.resign': 'Marked a membership resigned',
-  'member.rejoin': 'Let a member rejoin',
-  'member.edit': 'Edited member details',
-  'member.roles': 'Changed roles',
-  'member.guardian_consent_request': 'Asked a guardian for consent',
-  'member.rename': 'Changed a name',
-  'member.signed_up': 'Signed up',
-  'member.guardian_consent': 'Guardian gave consent',
-  'account.password_reset': 'Reset a password from an e-mailed link',
-  'waiver.publish': 'Published a waiver version',
-  'notice.retry': 'Retried a notice',
-  'member.admin_created': 'Admin created from the command line',
-  'notice.run': 'Sent due e-mails now',
+import { formatCalendarDate, formatInstant } from './dates'
+import { fieldLabel } from './field-labels'
+import { MEMBERSHIP_STATUS_WORDS, type MembershipStatus } from './membership-status'
+import { NOTICE_STATUS_WORDS, type NoticeStatus } from './notice-status'
+import { ROLE_LABELS, type Role } from './permissions'
+import type { Words } from './words'
+
+export const AUDIT_ACTIONS = [
+  'member.approve',
+  'member.suspend',
+  'member.reinstate',
+  'member.resign',
+  'member.rejoin',
+  'member.edit',
+  'member.roles',
+  'member.guardian_consent_request',
+  'member.rename',
+  'member.signed_up',
+  'member.guardian_consent',
+  'member.admin_created',
+  'account.password_reset',
+  'waiver.publish',
+  'notice.retry',
+  'notice.run',
+] as const
+export type AuditAction = typeof AUDIT_ACTIONS[number]
+
+/** Each action in words: the audit page's entries and its filter's choices. */
+export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
+  'member.approve': { label: 'Approved a sign-up', meaning: 'An admin approved a sign-up; the first dues make it an active membership.' },
+  'member.suspend': { label: 'Suspended a membership', meaning: 'An admin suspended a membership: the member lost every right and was signed out.' },
+  'member.reinstate': { label: 'Reinstated a membership', meaning: 'An admin lifted a suspension; the member\'s dues decide their status again.' },
+  'member.resign': { label: 'Marked a membership resigned', meaning: 'An admin recorded that the member left the club; they were signed out.' },
+  'member.rejoin': { label: 'Let a member rejoin', meaning: 'An admin restored a resigned membership; paid dues decide its status again.' },
+  'member.edit': { label: 'Edited member details', meaning: 'An officer changed contact, birth date or guardian details; the trail names the fields, never their values.' },
+  'member.roles': { label: 'Changed roles', meaning: 'An admin gave or took away roles, and with them what the member may do.' },
+  'member.guardian_consent_request': { label: 'Asked a guardian for consent', meaning: 'A fresh consent link went to a junior\'s guardian and older links stopped working.' },
+  'member.rename': { label: 'Changed a name', meaning: 'A member\'s name was changed, by the member or an officer.' },
+  'member.signed_up': { label: 'Signed up', meaning: 'Someone joined through the club\'s sign-up page and now waits for approval.' },
+  'member.guardian_consent': { label: 'Guardian gave consent', meaning: 'A junior\'s guardian confirmed consent from the e-mailed link.' },
+  'member.admin_created': { label: 'Admin created from the command line', meaning: 'Whoever runs the server created an admin with npm run admin:create.' },
+  'account.password_reset': { label: 'Reset a password from an e-mailed link', meaning: 'A member set a new password from a reset link; every session of the account was signed out.' },
+  'waiver.publish': { label: 'Published a waiver version', meaning: 'A new waiver version came into force; every member is asked to accept it.' },
+  'notice.retry': { label: 'Retried a notice', meaning: 'An officer put a failed or skipped e-mail back in the queue.' },
+  'notice.run': { label: 'Sent due e-mails now', meaning: 'An admin ran the reminder scans and the queue at once instead of waiting for the next run.' },
 }
 
-/** The label for `action`, or the action code itself when it has none. */
+/** Whether `action` is one the server records. */
+export function isAuditAction(action: string): action is AuditAction {
+  return (AUDIT_ACTIONS as readonly string[]).includes(action)
+}
+
+/** The label for `action` (rows keep it as text), or the text itself for an action no longer listed. */
 export function auditActionLabel(action: string): string {
-  return AUDIT_ACTION_LABELS[action] ?? action
+  return isAuditAction(action) ? AUDIT_ACTION_WORDS[action].label : action
 }
 
-/**
- * Readable names of the fields an audit event says changed (`after.changed`), for the audit page.
- * Contact edits record only which fields changed, never their values.
- */
-export const AUDIT_FIELD_LABELS: Record<string, string> = {
-  name: 'Name',
-  phone: 'Phone',
-  emergencyContactName: 'Emergency contact',
-  emergencyContactPhone: 'Emergency phone',
-  unitPreference: 'Units',
-  birthDate: 'Birth date',
-  guardianName: 'Guardian\'s name',
-  guardianEmail: 'Guardian\'s e-mail',
-  guardianConsentAt: 'Guardian consent',
+/** What an audit event is about, in words (`subjectType` as the rows keep it). */
+export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
+  membership: 'A member',
+  user: 'An account',
+  waiver: 'A waiver version',
+  notice: 'An e-mail in the outbox',
+  club: 'The club',
+}
+
+/** The words for what an event is about, or the subject type itself when it has none. */
+export function auditSubjectLabel(subjectType: string): string {
+  return AUDIT_SUBJECT_LABELS[subjectType] ?? subjectType
 }
 
 /** "Phone, Emergency contact changed" for `fields` (a field without a label shows its code). */
 export function changedFieldsText(fields: readonly string[]): string {
   if (!fields.length) return 'Nothing changed'
-  const labels = [...new Set(fields.map(f => AUDIT_FIELD_LABELS[f] ?? f))]
+  const labels = [...new Set(fields.map(fieldLabel))]
   return `${labels.join(', ')} changed`
 }
 
@@ -53,4 +86,33 @@ export function changedFieldsText(fields: readonly string[]): string {
 export function changedFieldsOf(after: Record<string, unknown> | null): string[] | null {
   const changed = after?.changed
   return Array.isArray(changed) && changed.every(f => typeof f === 'string') ? changed as string[] : null
+}
+
+const OUTCOME_LABELS: Record<string, string> = { done: 'Finished', failed: 'Stopped by an error' }
+const INSTANT = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/
+const CALENDAR_DATE = /^\d{4}-\d{2}-\d{2}$/
+
+/**
+ * One before/after value of an audit event in words: statuses and roles by their labels (a notice's
+ * status for a notice, a membership's otherwise), instants in the club's time zone `timeZone` and
+ * format (UTC, said so, while it is unknown), calendar dates written out, yes/no, "—" for nothing.
+ */
+export function auditValueText(field: string, value: unknown, opts: { subjectType: string, timeZone: string | null }): string {
+  if (value === null || value === undefined || value === '') return '—'
+  if (typeof value === 'boolean') return value ? 'Yes' : 'No'
+  if (field === 'status' && typeof value === 'string') {
+    const words = opts.subjectType === 'notice'
+      ? NOTICE_STATUS_WORDS[value as NoticeStatus]
+      : MEMBERSHIP_STATUS_WORDS[value as MembershipStatus]
+    return words?.label ?? value
+  }
+  if (field === 'roles' && Array.isArray(value)) return value.map(r => ROLE_LABELS[r as Role] ?? String(r)).join(', ') || '—'
+  if (field === 'outcome' && typeof value === 'string') return OUTCOME_LABELS[value] ?? value
+  if (Array.isArray(value)) return value.map(String).join(', ') || '—'
+  if (typeof value === 'string' && INSTANT.test(value) && !Number.isNaN(Date.parse(value))) {
+    return opts.timeZone ? formatInstant(value, opts.timeZone) : `${formatInstant(value, 'UTC')} UTC`
+  }
+  if (typeof value === 'string' && CALENDAR_DATE.test(value)) return formatCalendarDate(value)
+  if (typeof value === 'object') return JSON.stringify(value)
+  return String(value)
 }

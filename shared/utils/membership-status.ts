@@ -12,18 +12,27 @@
  * "Today" is the calendar date in the club's time zone, never the server's.
  */
 import { addCalendarDays, dateInZone } from './dates'
+import type { Words } from './words'
 
 export const MEMBERSHIP_STATUSES = ['pending', 'active', 'grace', 'lapsed', 'suspended', 'resigned'] as const
 export type MembershipStatus = typeof MEMBERSHIP_STATUSES[number]
 
-export const MEMBERSHIP_STATUS_LABELS: Record<MembershipStatus, string> = {
-  pending: 'Pending',
-  active: 'Active',
-  grace: 'Grace period',
-  lapsed: 'Lapsed',
-  suspended: 'Suspended',
-  resigned: 'Resigned',
+/**
+ * Each status in words: the label every page, filter and card shows and the sentence that explains
+ * it (the dashboard's hints, the chips' titles). The one place these words live.
+ */
+export const MEMBERSHIP_STATUS_WORDS: Record<MembershipStatus, Words> = {
+  pending: { label: 'Pending', meaning: 'Signed up and waiting for approval, or approved with the first dues not paid yet.' },
+  active: { label: 'Active', meaning: 'Dues paid through today or later.' },
+  grace: { label: 'Grace period', meaning: 'Dues ran out lately: can train, cannot fill or book until renewed.' },
+  lapsed: { label: 'Lapsed', meaning: 'Past the grace period: must renew before training again.' },
+  suspended: { label: 'Suspended', meaning: 'Suspended by the admin: no training, booking or fill until reinstated.' },
+  resigned: { label: 'Resigned', meaning: 'Left the club; the admin can let them rejoin.' },
 }
+
+/** Each status's label (from MEMBERSHIP_STATUS_WORDS). */
+export const MEMBERSHIP_STATUS_LABELS = Object.fromEntries(MEMBERSHIP_STATUSES
+  .map(s => [s, MEMBERSHIP_STATUS_WORDS[s].label])) as Record<MembershipStatus, string>
 
 export const DEFAULT_GRACE_DAYS = 30
 

@@ -120,6 +120,37 @@ describe('views kept in the address', () => {
   })
 })
 
+describe('the audit trail in words', () => {
+  it('names actions and changed fields in words, times in the club\'s format, and filters by an action\'s label', async () => {
+    const member = await makeMember()
+    expect((await api(`/api/members/${member.memberId}/suspend`, { method: 'POST', as: 'admin', body: { reason: 'Browser test of audit words' } })).status).toBe(200)
+    const [row] = await sql<{ suspended_at: Date }>('SELECT suspended_at FROM memberships WHERE id = $1', [member.memberId])
+    const page = await signedInWith(DEMO.admin, { timezoneId: 'Pacific/Auckland' })
+    try {
+      await goTo(page, `/audit?subjectId=${member.memberId}`)
+      const event = page.getByTestId('audit-event').first()
+      await expect.poll(() => event.getByTestId('audit-action-label').textContent()).toContain('Suspended a membership')
+      const changes = async () => (await event.getByTestId('audit-change').allTextContents()).map(t => t.replace(/\s+/g, ' ').trim())
+      expect(await changes()).toContain('Status: Active → changed to Suspended')
+      // The club's clock and format (Europe/London, "15 Jan 2026, 23:30"), not the viewer's in Auckland.
+      await expect.poll(changes).toContain(`Suspended: — → changed to ${formatInstant(row!.suspended_at.toISOString(), CLUB_TIME_ZONE)}`)
+      const text = await page.getByTestId('audit-list').textContent()
+      expect(text).not.toContain('member.suspend')
+      expect(text).not.toContain('suspendedAt')
+      expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}T/)
+
+      await page.getByTestId('audit-action').selectOption({ label: 'Suspended a membership' })
+      await page.getByTestId('audit-filter').click()
+      await page.waitForURL(url => url.searchParams.get('action') === 'member.suspend')
+      await expect.poll(async () => (await page.getByTestId('audit-action-label').allTextContents()).map(t => t.trim()))
+        .toEqual(['Suspended a membership'])
+    }
+    finally {
+      await page.close()
+    }
+  })
+})
+
 describe('times in the club\'s time zone', () => {
   it('shows a member\'s suspension time as the club reads its clock, not the viewer\'s, and says which zone', async () => {
     const member = await makeMember({ suspendedReason: 'Time zone check (browser test)', suspendedAt: new Date('2026-01-15T23:30:00.000Z') })

@@ -1,13 +1,15 @@
 import type { Transaction } from 'sequelize'
 import { AuditEvent } from '../../models'
 import type { Actor } from '../../utils/auth'
+import type { AuditAction } from '#shared/utils/audit-actions'
 
 /** What acts when no member does: the labels stored for rows without an actor id (never a person's name). */
 export const NON_MEMBER_ACTORS = { system: 'System', guardian: 'Guardian (e-mailed link)' } as const
 export type NonMemberActor = keyof typeof NON_MEMBER_ACTORS
 
 export interface AuditEntry {
-  action: string
+  /** One of AUDIT_ACTIONS (shared/utils/audit-actions.ts), which gives it its words on the audit page. */
+  action: AuditAction
   subjectType: string
   subjectId: string | null
   /**

@@ -12,6 +12,7 @@ import type { Actor } from '../../utils/auth'
 import { changedFields, recordAudit } from '../audit'
 import { clubBaseUrl, clubToday } from '../clubs'
 import { SCRUB_LINKS_SQL, enqueueNotice, kickNoticeQueue } from '../notices'
+import type { AuditAction } from '#shared/utils/audit-actions'
 import { loadMemberDto } from './members'
 import { queueGuardianConsent, revokeTokens, revokeSessions } from '../accounts'
 
@@ -23,8 +24,8 @@ export { MEMBERSHIP_ACTIONS, type MembershipActionName } from '#shared/utils/mem
 type Changes = Partial<Pick<Membership, 'approvedAt' | 'suspendedAt' | 'suspendedReason' | 'resignedAt'>>
 
 interface ActionEffect {
-  /** The audit-trail action it records (a literal, so tests/unit/audit/audit-actions.test.ts finds it). */
-  action: string
+  /** The audit-trail action it records. */
+  action: AuditAction
   /** The columns the action sets. */
   changes: (reason: string, now: Date) => Changes
 }

@@ -1,20 +1,11 @@
 import { QueryTypes } from 'sequelize'
-import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '#shared/utils/membership-status'
+import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_WORDS, type MembershipStatus } from '#shared/utils/membership-status'
 import type { StandingDto } from '#shared/types/members'
 import type { Card, CardProvider } from '../dashboard/provider'
 import { statusCaseSql } from './status-sql'
 
 // The status function as SQL (its one copy), with this file's replacements.
 const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
-
-const STATUS_HINTS: Record<MembershipStatus, string> = {
-  pending: 'Signed up, first dues not paid yet.',
-  active: 'Dues paid through today or later.',
-  grace: 'Dues ran out lately: can train, cannot fill or book.',
-  lapsed: 'Past the grace period: must renew.',
-  suspended: 'Suspended by the admin.',
-  resigned: 'Left the club.',
-}
 
 const days = (n: number) => `${n} day${n === 1 ? '' : 's'}`
 
@@ -25,7 +16,7 @@ function myCards(s: StandingDto): Card[] {
     ? { key: 'my-paid-through', title: 'Dues paid through', value: m.paidThrough, hint: s.daysToExpiry! >= 0 ? `${days(s.daysToExpiry!)} left.` : `Ran out ${days(-s.daysToExpiry!)} ago.`, to: '/standing', tone: s.daysToExpiry! > 30 ? 'ok' : 'attention', group: 'mine' }
     : { key: 'my-paid-through', title: 'Dues paid through', value: 'Never paid', hint: 'Your first dues make you an active member.', to: '/standing', tone: 'attention', group: 'mine' }
   return [
-    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_LABELS[m.status], hint: STATUS_HINTS[m.status], to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
+    { key: 'my-status', title: 'Status', value: MEMBERSHIP_STATUS_WORDS[m.status].label, hint: MEMBERSHIP_STATUS_WORDS[m.status].meaning, to: '/standing', tone: m.status === 'active' ? 'ok' : 'attention', group: 'mine' },
     {
       key: 'my-waiver',
       title: 'Waiver',
@@ -47,9 +38,9 @@ async function memberCards(clubId: string, today: string, graceDays: number): Pr
   const byStatus = new Map(rows.map(r => [r.status, r.n]))
   return MEMBERSHIP_STATUSES.map(status => ({
     key: `members-${status}`,
-    title: MEMBERSHIP_STATUS_LABELS[status],
+    title: MEMBERSHIP_STATUS_WORDS[status].label,
     value: byStatus.get(status) ?? 0,
-    hint: STATUS_HINTS[status],
+    hint: MEMBERSHIP_STATUS_WORDS[status].meaning,
     to: `/members?status=${status}`,
     tone: (status === 'grace' || status === 'lapsed') && byStatus.get(status) ? 'attention' : 'neutral',
     group: 'members',

@@ -1,0 +1,44 @@
+/**
+ * Field names (as the code and the audit trail's before/after keep them) in words, for any page that
+ * names a field: the audit trail's changes, "Phone, Emergency contact changed". A field without a
+ * label shows its name; tests/api/audit-words.test.ts checks every field the audit trail records has one.
+ */
+export const FIELD_LABELS: Record<string, string> = {
+  // A member's details
+  name: 'Name',
+  phone: 'Phone',
+  emergencyContactName: 'Emergency contact',
+  emergencyContactPhone: 'Emergency phone',
+  unitPreference: 'Units',
+  birthDate: 'Birth date',
+  guardianName: 'Guardian\'s name',
+  guardianEmail: 'Guardian\'s e-mail',
+  guardianConsentAt: 'Guardian consent',
+  junior: 'Junior (under 18)',
+  // Membership
+  status: 'Status',
+  paidThrough: 'Dues paid through',
+  approvedAt: 'Approved',
+  suspendedAt: 'Suspended',
+  resignedAt: 'Resigned',
+  roles: 'Roles',
+  // One-time links
+  linksStopped: 'Older consent links stopped',
+  otherResetLinksStopped: 'Other reset links stopped',
+  // Waivers
+  version: 'Version',
+  title: 'Title',
+  // E-mails and the notice job's run
+  attempts: 'Tries so far',
+  outcome: 'Outcome',
+  queued: 'Reminders queued',
+  sent: 'Sent',
+  retried: 'To try again later',
+  failed: 'Failed',
+  skipped: 'Skipped (opted out)',
+}
+
+/** The words for field `name`, or the name itself when it has none. */
+export function fieldLabel(name: string): string {
+  return FIELD_LABELS[name] ?? name
+}
