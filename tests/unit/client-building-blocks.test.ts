@@ -11,7 +11,7 @@ import { AuditQuerySchema } from '../../shared/schemas/audit'
 // The composables run outside a browser here: the DOM classes their focus code tests against.
 beforeAll(() => {
   const g = globalThis as Record<string, unknown>
-  for (const name of ['HTMLElement', 'HTMLFormElement', 'Element']) g[name] ??= class {}
+  for (const name of ['HTMLElement', 'HTMLFormElement', 'Element']) g[name] ??= function DomStandIn() {}
 })
 
 const scopes: ReturnType<typeof effectScope>[] = []
@@ -34,8 +34,8 @@ const flush = () => new Promise(resolve => setTimeout(resolve, 0))
 describe('useQueryFilters: a list view in the URL, parsed with the route\'s schema', () => {
   function setup<S extends z.ZodObject<z.ZodRawShape>>(schema: S, query: Record<string, string>) {
     const route = reactive({ query: { ...query } })
-    const replace = vi.fn((to: { query: Record<string, string> }) => {
-      route.query = to.query
+    const replace = vi.fn((to: { query: Record<string, unknown> }) => {
+      route.query = to.query as Record<string, string>
     })
     return { route, replace, list: run(() => useQueryFilters(schema, { route, router: { replace } })) }
   }
