@@ -1,4 +1,4 @@
-import type { ComponentPublicInstance, MaybeRefOrGetter, Ref } from 'vue'
+import { nextTick, toValue, type ComponentPublicInstance, type MaybeRefOrGetter, type Ref } from 'vue'
 
 /** Something focus can move to: an element, a component (its root element or its own `focus()`), or nothing. */
 export type FocusTarget = HTMLElement | ComponentPublicInstance | null | undefined

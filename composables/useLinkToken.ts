@@ -1,9 +1,7 @@
-import type { FetchError } from 'ofetch'
+import { readApiError } from '~~/shared/utils/api-error'
 
 /** Where a page that acts on an e-mailed link stands. The TOKEN_* states are the server's reason codes. */
 export type LinkState = 'idle' | 'working' | 'done' | 'TOKEN_USED' | 'TOKEN_EXPIRED' | 'TOKEN_INVALID' | 'error'
-
-interface ErrorBody { statusCode?: number, message?: string, data?: { reasons?: { code: string, message: string }[] } }
 
 const TOKEN_CODES = ['TOKEN_USED', 'TOKEN_EXPIRED', 'TOKEN_INVALID'] as const
 
@@ -30,11 +28,10 @@ export function useLinkToken() {
       return result
     }
     catch (error) {
-      const body = (error as FetchError<ErrorBody>).data
-      const code = body?.data?.reasons?.[0]?.code
-      const known = TOKEN_CODES.find(c => c === code)
-      state.value = known ?? ((error as FetchError).statusCode === 400 ? 'TOKEN_INVALID' : 'error')
-      message.value = body?.data?.reasons?.[0]?.message ?? body?.message ?? 'Something went wrong. Try again.'
+      const read = readApiError(error)
+      const known = TOKEN_CODES.find(c => read.codes[0] === c)
+      state.value = known ?? (read.status === 400 ? 'TOKEN_INVALID' : 'error')
+      message.value = read.message
       return undefined
     }
   }

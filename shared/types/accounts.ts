@@ -27,6 +27,8 @@ export interface GuardianConsentDto {
   guardianName: string | null
   /** When the guardian consented (ISO instant), or null while consent is still awaited. */
   consentedAt: string | null
+  /** The club's time zone (IANA), in which the page shows the date: the guardian is not signed in. */
+  timeZone: string
 }
 
 /** One of my sessions that has not ended, for the profile's list (newest use first). */

@@ -5,7 +5,7 @@ import { DEMO_ACCOUNTS } from './members'
 export const DEMO_WAIVER_TITLE = 'Saltmarsh Rocketry Guild risk waiver'
 export const DEMO_WAIVER_BODY = `Water rockets store energy in compressed air. A vessel can burst, a rocket can launch without warning and laminating resins can sensitise skin for life.
 
-I will follow the Guild's rules, the range safety officer's instructions and local codes. I will proof-test vessels full of water and from a distance, never stand over a pressurised vessel, wear eye protection at the pad, and fill and release only from the remote station.
+I will follow the Guild's rules, the safety officer's instructions and local codes. I will proof-test vessels full of water and from a distance, never stand over a pressurised vessel, wear eye protection at the pad, and fill and release only from the remote station.
 
 I will wear gloves and eye protection and work with ventilation when handling resin and hardener, and use extraction and a respirator when sanding composites.
 

@@ -49,6 +49,7 @@ function consentDto(m: Membership & { user: User, club: Club }): GuardianConsent
     clubName: m.club.name,
     guardianName: m.guardianName,
     consentedAt: m.guardianConsentAt ? new Date(m.guardianConsentAt).toISOString() : null,
+    timeZone: m.club.timeZone,
   }
 }
 

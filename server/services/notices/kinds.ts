@@ -3,6 +3,7 @@
  * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
  */
 import { tokenLifetimeWords } from '../accounts'
+import { JOINING_CAUTION } from '#shared/utils/wording'
 
 export interface NoticeVars {
   clubName: string
@@ -46,10 +47,11 @@ export function longDate(date: string | number | undefined): string {
 export const NOTICE_KINDS = {
   email_verification: {
     optional: false,
-    label: 'E-mail verification',
+    label: 'E-mail confirmation',
     render: v => notice(`Confirm your e-mail for ${v.clubName}`, [
       `Hello ${v.memberName},`,
       `Please confirm this e-mail address for your ${v.clubName} account. The link works once and expires in ${tokenLifetimeWords('verify_email')}.`,
+      JOINING_CAUTION,
     ], { label: 'Confirm my e-mail', url: v.actionUrl }),
   },
   password_reset: {
@@ -69,6 +71,7 @@ export const NOTICE_KINDS = {
       `${v.memberName} has signed up to ${v.clubName}, a water rocketry club, and named you as their parent or guardian.`,
       'Members under 18 train first, hold at most the club\'s junior tier (T1 by default: bottle fills up to 6 bar) and fill only under an instructor\'s supervision; composite and laminate work is for adults.',
       `If you agree to their membership, confirm with the link below (it works once and expires in ${tokenLifetimeWords('guardian_consent')}).`,
+      JOINING_CAUTION,
     ], { label: 'I give my consent', url: v.actionUrl }),
   },
   // The first admin's account, made by `npm run admin:create -- --send-link`: a reset link by another name.
@@ -97,6 +100,7 @@ export const NOTICE_KINDS = {
     render: v => notice(`Welcome to ${v.clubName}`, [
       `Hello ${v.memberName},`,
       `Your sign-up to ${v.clubName} has been approved. Pay your first dues and accept the club's risk waiver to take part.`,
+      JOINING_CAUTION,
     ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
   },
   dues_reminder: {
@@ -105,7 +109,8 @@ export const NOTICE_KINDS = {
     description: 'A reminder 30 days before your dues run out.',
     render: v => notice(`Your ${v.clubName} dues run out on ${longDate(v.paidThrough)}`, [
       `Hello ${v.memberName},`,
-      `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep training, booking and filling without a gap.`,
+      `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep your membership in good standing without a gap.`,
+      'Paid dues keep your membership; they do not by themselves allow a fill. Filling also takes your training and tier, a vessel in service and the club\'s rules on the day.',
     ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
   },
 } satisfies Record<string, NoticeKind>

@@ -230,7 +230,9 @@ describe('juniors and guardian consent', () => {
 
     const preview = await api('/api/guardian-consent/preview', { body: { token } })
     expect(preview.status).toBe(200)
-    expect(preview.body).toEqual({ memberName: 'Pip Tidewater', clubName: 'Saltmarsh Rocketry Guild', guardianName: 'Rowan Tidewater', consentedAt: null })
+    // The guardian is not signed in: the club's time zone comes with the answer, for the page's dates.
+    const [club] = await sql<{ time_zone: string }>('SELECT time_zone FROM clubs WHERE name = $1', ['Saltmarsh Rocketry Guild'])
+    expect(preview.body).toEqual({ memberName: 'Pip Tidewater', clubName: 'Saltmarsh Rocketry Guild', guardianName: 'Rowan Tidewater', consentedAt: null, timeZone: club!.time_zone })
     // Looking does not consent.
     expect((await sql('SELECT guardian_consent_at FROM memberships WHERE id = $1', [memberId]))[0]).toEqual({ guardian_consent_at: null })
 
