@@ -1,14 +1,16 @@
 import { QueryTypes } from 'sequelize'
 import { actorCan, type Actor } from '../utils/auth'
 import { loadStanding } from './standing'
-import { statusCaseSql } from './membership-status-sql'
+import { statusCountColumnsSql, statusPredicates } from './membership-status-sql'
 import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from '../../shared/utils/membership-status'
 import type { DashboardDto, StandingDto } from '../../shared/types/dto'
 
 type Card = DashboardDto['cards'][number]
 
 // The status function as SQL (its one copy), with this file's replacements.
-const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
+const STATUS_PARAMS = { today: ':today', graceDays: ':graceDays' }
+const STATUS_COUNTS_SQL = statusCountColumnsSql(STATUS_PARAMS)
+const STATUS_SQL = statusPredicates(STATUS_PARAMS)
 
 const STATUS_HINTS: Record<MembershipStatus, string> = {
   pending: 'Signed up, first dues not paid yet.',
@@ -49,10 +51,10 @@ function myCards(s: StandingDto): Card[] {
 
 /** members.read: how many members the club has in each status. */
 async function memberCards(clubId: string, today: string, graceDays: number): Promise<Card[]> {
-  const rows = await useDb().query<{ status: MembershipStatus, n: number }>(`
-    SELECT ${MEMBERSHIP_STATUS_SQL} AS status, count(*)::int AS n FROM memberships m
-    WHERE m.club_id = :clubId GROUP BY 1`, { replacements: { clubId, today, graceDays }, type: QueryTypes.SELECT })
-  const byStatus = new Map(rows.map(r => [r.status, r.n]))
+  const [row] = await useDb().query<Record<MembershipStatus, number>>(`
+    SELECT ${STATUS_COUNTS_SQL} FROM memberships m WHERE m.club_id = :clubId`,
+  { replacements: { clubId, today, graceDays }, type: QueryTypes.SELECT })
+  const byStatus = new Map(MEMBERSHIP_STATUSES.map(s => [s, row?.[s] ?? 0]))
   return MEMBERSHIP_STATUSES.map(status => ({
     key: `members-${status}`,
     title: MEMBERSHIP_STATUS_LABELS[status],
@@ -105,7 +107,7 @@ async function waiverCards(clubId: string, today: string, graceDays: number, cur
     ? 0
     : await count(`
       SELECT count(*)::int AS n FROM memberships m
-      WHERE m.club_id = :clubId AND ${MEMBERSHIP_STATUS_SQL} IN ('active', 'grace')
+      WHERE m.club_id = :clubId AND ((${STATUS_SQL.active}) OR (${STATUS_SQL.grace}))
         AND NOT EXISTS (SELECT 1 FROM waiver_acceptances a JOIN waivers w ON w.id = a.waiver_id
           WHERE a.membership_id = m.id AND w.club_id = :clubId AND w.version = :version)`,
       { clubId, today, graceDays, version: currentVersion })
@@ -129,11 +131,14 @@ export async function loadDashboard(actor: Actor): Promise<DashboardDto | null> 
   const clubId = actor.club.id
   const { graceDays } = actor.club
   const { today } = standing
-  const cards = myCards(standing)
-  if (actorCan(actor, 'members.read')) cards.push(...await memberCards(clubId, today, graceDays))
-  if (actorCan(actor, 'members.manage')) cards.push(await approvalCard(clubId, today))
-  if (actorCan(actor, 'notices.manage')) cards.push(...await noticeCards(clubId))
-  if (actorCan(actor, 'policy.edit')) cards.push(...await waiverCards(clubId, today, graceDays, standing.member.waiver.currentVersion))
-  if (actorCan(actor, 'audit.read')) cards.push(await auditCard(clubId))
+  // The capability cards' queries are independent: run them side by side on the pool.
+  const groups = await Promise.all([
+    actorCan(actor, 'members.read') ? memberCards(clubId, today, graceDays) : [],
+    actorCan(actor, 'members.manage') ? approvalCard(clubId, today).then(c => [c]) : [],
+    actorCan(actor, 'notices.manage') ? noticeCards(clubId) : [],
+    actorCan(actor, 'policy.edit') ? waiverCards(clubId, today, graceDays, standing.member.waiver.currentVersion) : [],
+    actorCan(actor, 'audit.read') ? auditCard(clubId).then(c => [c]) : [],
+  ])
+  const cards = [...myCards(standing), ...groups.flat()]
   return { roles: actor.roles, cards }
 }
