@@ -6,6 +6,7 @@ import * as m0007 from './0007-sessions'
 import * as m0008 from './0008-rate-limits'
 import * as m0009 from './0009-notice-claims'
 import * as m0010 from './0010-audit-actor-by-id'
+import * as m0011 from './0011-directory-sort-keys'
 import * as m0012 from './0012-member-audit-prefix'
 
 export const migrations = [
@@ -16,5 +17,6 @@ export const migrations = [
   { name: '0008-rate-limits', ...m0008 },
   { name: '0009-notice-claims', ...m0009 },
   { name: '0010-audit-actor-by-id', ...m0010 },
+  { name: '0011-directory-sort-keys', ...m0011 },
   { name: '0012-member-audit-prefix', ...m0012 },
 ]

@@ -2,10 +2,10 @@ import { QueryTypes } from 'sequelize'
 import { MEMBERSHIP_STATUSES, MEMBERSHIP_STATUS_WORDS, type MembershipStatus } from '#shared/utils/membership-status'
 import type { StandingDto } from '#shared/types/members'
 import type { Card, CardProvider } from '../dashboard/provider'
-import { statusCaseSql } from './status-sql'
+import { statusCountColumnsSql } from './status-sql'
 
 // The status function as SQL (its one copy), with this file's replacements.
-const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
+const STATUS_COUNTS_SQL = statusCountColumnsSql({ today: ':today', graceDays: ':graceDays' })
 
 const days = (n: number) => `${n} day${n === 1 ? '' : 's'}`
 
@@ -32,10 +32,10 @@ function myCards(s: StandingDto): Card[] {
 
 /** members.read: how many members the club has in each status. */
 async function memberCards(clubId: string, today: string, graceDays: number): Promise<Card[]> {
-  const rows = await useDb().query<{ status: MembershipStatus, n: number }>(`
-    SELECT ${MEMBERSHIP_STATUS_SQL} AS status, count(*)::int AS n FROM memberships m
-    WHERE m.club_id = :clubId GROUP BY 1`, { replacements: { clubId, today, graceDays }, type: QueryTypes.SELECT })
-  const byStatus = new Map(rows.map(r => [r.status, r.n]))
+  const [row] = await useDb().query<Record<MembershipStatus, number>>(`
+    SELECT ${STATUS_COUNTS_SQL} FROM memberships m WHERE m.club_id = :clubId`,
+  { replacements: { clubId, today, graceDays }, type: QueryTypes.SELECT })
+  const byStatus = new Map(MEMBERSHIP_STATUSES.map(s => [s, row?.[s] ?? 0]))
   return MEMBERSHIP_STATUSES.map(status => ({
     key: `members-${status}`,
     title: MEMBERSHIP_STATUS_WORDS[status].label,

@@ -1,9 +1,9 @@
 import { QueryTypes } from 'sequelize'
 import type { Card, CardProvider } from '../dashboard/provider'
-import { statusCaseSql } from '../members'
+import { statusPredicates } from '../members'
 
 // The status function as SQL (its one copy), with this file's replacements.
-const MEMBERSHIP_STATUS_SQL = statusCaseSql({ today: ':today', graceDays: ':graceDays' })
+const STATUS_SQL = statusPredicates({ today: ':today', graceDays: ':graceDays' })
 
 async function count(sql: string, replacements: Record<string, unknown>): Promise<number> {
   const [row] = await useDb().query<{ n: number }>(sql, { replacements, type: QueryTypes.SELECT })
@@ -16,13 +16,13 @@ async function waiverCardsFor(clubId: string, today: string, graceDays: number, 
     ? 0
     : await count(`
       SELECT count(*)::int AS n FROM memberships m
-      WHERE m.club_id = :clubId AND ${MEMBERSHIP_STATUS_SQL} IN ('active', 'grace')
+      WHERE m.club_id = :clubId AND ((${STATUS_SQL.active}) OR (${STATUS_SQL.grace}))
         AND NOT EXISTS (SELECT 1 FROM waiver_acceptances a JOIN waivers w ON w.id = a.waiver_id
           WHERE a.membership_id = m.id AND w.club_id = :clubId AND w.version = :version)`,
       { clubId, today, graceDays, version: currentVersion })
   return [
     { key: 'waiver-version', title: 'Waiver in force', value: currentVersion === null ? 'None' : `Version ${currentVersion}`, hint: currentVersion === null ? 'Publish the club\'s waiver.' : 'Publishing a new version asks everyone again.', to: '/waiver', tone: currentVersion === null ? 'attention' : 'neutral', group: 'safety' },
-    { key: 'waiver-missing', title: 'Members without the current waiver', value: missing, hint: 'Active and in-grace members who have not accepted it.', to: '/waiver', tone: missing ? 'attention' : 'ok', group: 'safety' },
+    { key: 'waiver-missing', title: 'Members without the current waiver', value: missing, hint: 'Active members and those in their grace period who have not accepted it.', to: '/waiver', tone: missing ? 'attention' : 'ok', group: 'safety' },
   ]
 }
 

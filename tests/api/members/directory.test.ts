@@ -175,3 +175,32 @@ describe('the status filter\'s SQL puts each member in the status the rules give
       .toEqual([3, 3, 2, 2, 3, 3])
   })
 })
+
+describe('GET /api/members: the name and e-mail orders follow an account that changes', () => {
+  it('re-sorts a renamed member and one whose e-mail changed, with no stale sort key left', async () => {
+    const tag = `ren${randomUUID().slice(0, 8)}`
+    const a = await makeMember({ name: `Aster ${tag}`, email: `a-${tag}@test.hoopwise.example` })
+    const b = await makeMember({ name: `Birch ${tag}`, email: `b-${tag}@test.hoopwise.example` })
+    const names = async () => (await listTagged(tag, { sort: 'name' })).items.map(i => i.name.split(' ')[0])
+    expect(await names()).toEqual(['Aster', 'Birch'])
+
+    const renamed = await api(`/api/members/${a.memberId}`, { as: 'admin', method: 'PATCH', body: { name: `Zinnia ${tag}` } })
+    expect(renamed.status).toBe(200)
+    expect(await names()).toEqual(['Birch', 'Zinnia'])
+
+    // An e-mail change made below the API (as a confirmed address change would) moves the e-mail order too.
+    await sql(`UPDATE users SET email = $2 WHERE id = $1`, [b.userId, `z-${tag}@test.hoopwise.example`])
+    const emails = (await listTagged(tag, { sort: 'email' })).items.map(i => i.email[0])
+    expect(emails).toEqual(['a', 'z'])
+    const [keys] = await sql<{ stale: number }>(`SELECT count(*)::int AS stale FROM memberships m JOIN users u ON u.id = m.user_id
+      WHERE m.name_key <> lower(u.name) OR m.email_key <> lower(u.email)`)
+    expect(keys!.stale).toBe(0)
+  })
+
+  it('refuses a sort key written by hand: the membership takes it from its account again', async () => {
+    const m = await makeMember({ name: `Sorrel ${randomUUID().slice(0, 8)}` })
+    await sql(`UPDATE memberships SET name_key = 'aaaa' WHERE id = $1`, [m.memberId])
+    const [row] = await sql<{ name_key: string }>(`SELECT name_key FROM memberships WHERE id = $1`, [m.memberId])
+    expect(row!.name_key).toBe(m.name.toLowerCase())
+  })
+})
