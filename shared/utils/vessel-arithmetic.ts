@@ -557,9 +557,9 @@ export function proofStanding(input: ProofStandingInput): ProofStanding {
 /** The waste allowance added to the resin a layup needs (common practice: 15–20 %). */
 export const DEFAULT_RESIN_WASTE_FRACTION = 0.2
 
-export type MixRatio =
-  | { basis: 'weight', resinParts: number, hardenerParts: number }
-  | { basis: 'volume', resinParts: number, hardenerParts: number, resinDensityGPerMl: number, hardenerDensityGPerMl: number }
+export type MixRatio
+  = | { basis: 'weight', resinParts: number, hardenerParts: number }
+    | { basis: 'volume', resinParts: number, hardenerParts: number, resinDensityGPerMl: number, hardenerDensityGPerMl: number }
 
 export interface ResinToMixInput {
   clothAreaM2: number
