@@ -31,3 +31,17 @@ export function daysBetween(from: string, to: string): number {
   }
   return Math.round((utc(to) - utc(from)) / 86_400_000)
 }
+
+/**
+ * `date` (YYYY-MM-DD) plus `months` calendar months, clamped to the month's last day
+ * (29 February + 12 months = 28 February; 31 August + 6 months = 28 or 29 February).
+ */
+export function addCalendarMonths(date: string, months: number): string {
+  const [y, m, d] = date.split('-').map(Number)
+  const monthIndex = (m! - 1) + months
+  const year = y! + Math.floor(monthIndex / 12)
+  const month = ((monthIndex % 12) + 12) % 12
+  const lastDay = new Date(Date.UTC(year, month + 1, 0)).getUTCDate()
+  const day = Math.min(d!, lastDay)
+  return `${String(year).padStart(4, '0')}-${String(month + 1).padStart(2, '0')}-${String(day).padStart(2, '0')}`
+}

@@ -65,6 +65,7 @@ const MATRIX: Record<string, Row> = {
   'GET /api/me/sessions': signedIn(200),
   'DELETE /api/me/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session of mine
   'POST /api/me/sessions/sign-out-others': signedIn(400), // not confirmed: nothing is signed out
+  'GET /api/calc/air-charge': open(400), // public; no pressure or volume given
 }
 
 let subjectId = ''

@@ -5,7 +5,7 @@ import { DEMO } from '../support/test-env'
 
 await setupBrowser()
 
-const SIGNED_OUT_PAGES = ['/login', '/signup', '/forgot-password']
+const SIGNED_OUT_PAGES = ['/login', '/signup', '/forgot-password', '/calculator']
 const ADMIN_PAGES = ['/', '/standing', '/waiver', '/members', '/audit', '/outbox', '/profile']
 
 describe('the content security policy in the browser', () => {
