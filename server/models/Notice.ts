@@ -1,5 +1,5 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize'
-import type { NoticeStatus } from '../../shared/utils/notice-status'
+import type { NoticeStatus } from '#shared/utils/notice-status'
 
 /** One e-mail in the notice queue: unique per member, kind, subject and due date. */
 export class Notice extends Model {

@@ -1,4 +1,4 @@
-import { VesselArithmeticError } from '../../shared/utils/vessel-arithmetic'
+import { VesselArithmeticError } from '#shared/utils/vessel-arithmetic'
 
 /**
  * Runs a calculation of the shared vessel arithmetic; input it refuses (no air left, a pressure below

@@ -5,6 +5,7 @@ import type { Page } from 'playwright-core'
 import { setupBrowser, goTo, signedInPage, submitSignIn } from '../support/browser'
 import { makeMember, noticesOf, setNotice, CLUB_TIME_ZONE } from '../support/factories'
 import { api } from '../support/http'
+import { sql } from '../support/db'
 import { DEMO } from '../support/test-env'
 
 await setupBrowser()

@@ -2,8 +2,8 @@ import { describe, expect, it } from 'vitest'
 import { GLOSSARY, GLOSSARY_CAUTION, JOINING_CAUTION, membershipStatusLabel } from '../../shared/utils/wording'
 import { MEMBERSHIP_STATUSES } from '../../shared/utils/membership-status'
 import { ROLE_LABELS } from '../../shared/utils/permissions'
-import { NOTICE_KINDS, type NoticeKindName } from '../../server/services/notice-kinds'
-import { composeNotice } from '../../server/services/notice-render'
+import { NOTICE_KINDS, type NoticeKindName } from '../../server/services/notices/kinds'
+import { composeNotice } from '../../server/services/notices/render'
 
 const VARS = {
   clubName: 'Saltmarsh Rocketry Guild',

@@ -1,6 +1,6 @@
-import { AirChargeQuerySchema } from '../../../shared/schemas/calc'
-import type { AirChargeDto } from '../../../shared/types/calc'
-import { airCharge } from '../../../shared/utils/vessel-arithmetic'
+import { AirChargeQuerySchema } from '#shared/schemas/calc'
+import type { AirChargeDto } from '#shared/types/calc'
+import { airCharge } from '#shared/utils/vessel-arithmetic'
 import { defaultDistanceRule } from '../../services/vessels/distance-rule'
 
 /**

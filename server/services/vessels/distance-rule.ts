@@ -1,5 +1,5 @@
 import type { H3Event } from 'h3'
-import type { DistanceRule } from '../../../shared/utils/vessel-arithmetic'
+import type { DistanceRule } from '#shared/utils/vessel-arithmetic'
 
 /** The form of ASME PCC-2's minimum distance every club starts with: R = 20·TNT^⅓ (the 2008 edition). */
 export const DEFAULT_DISTANCE_RULE: DistanceRule = 'tnt'

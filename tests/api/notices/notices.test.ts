@@ -4,7 +4,7 @@ import { sql } from '../../support/db'
 import { makeMember, makeNotice, setMembership, clubDay, type MadeMember, type NoticeOverrides } from '../../support/factories'
 import { mailsTo, waitForMail, linkIn, type CaughtMail } from '../../support/mail'
 import { testEnv } from '../../support/test-env'
-import { deriveOptOutKey, optOutToken } from '../../../server/services/notice-opt-out'
+import { deriveOptOutKey, optOutToken } from '../../../server/services/notices/opt-out'
 
 const REMINDER = /dues run out/
 
