@@ -14,10 +14,11 @@ export interface MemberListItemDto {
   paidThrough: string | null
   joinedOn: string
   junior: boolean
+  /** When an admin approved the sign-up (a pending member is "awaiting approval" until then). */
+  approvedAt: string | null
 }
 
 export interface MemberDto extends MemberListItemDto {
-  approvedAt: string | null
   suspendedAt: string | null
   suspendedReason: string | null
   resignedAt: string | null

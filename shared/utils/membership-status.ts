@@ -22,7 +22,7 @@ export type MembershipStatus = typeof MEMBERSHIP_STATUSES[number]
  * it (the dashboard's hints, the chips' titles). The one place these words live.
  */
 export const MEMBERSHIP_STATUS_WORDS: Record<MembershipStatus, Words> = {
-  pending: { label: 'Pending', meaning: 'Signed up and waiting for approval, or approved with the first dues not paid yet.' },
+  pending: { label: 'Awaiting approval or first dues', meaning: 'Signed up and waiting for approval, or approved with the first dues not paid yet.' },
   active: { label: 'Active', meaning: 'Dues paid through today or later.' },
   grace: { label: 'Grace period', meaning: 'Dues ran out lately: can train, cannot fill or book until renewed.' },
   lapsed: { label: 'Lapsed', meaning: 'Past the grace period: must renew before training again.' },

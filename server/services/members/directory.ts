@@ -29,6 +29,7 @@ function containsPattern(text: string): string {
 interface DirectoryRow {
   id: string
   roles: string[]
+  approved_at: Date | null
   paid_through: string | null
   suspended_at: Date | null
   resigned_at: Date | null
@@ -79,7 +80,7 @@ export function directoryStatements(
     countSql: `SELECT count(*)::int AS total FROM memberships m ${users} WHERE ${conditions}`,
     // A deferred join: the page's ids are found first on narrow rows (index order where one fits),
     // then only those 25 rows are widened; deep pages sort half as much data this way.
-    pageSql: `SELECT m.id, m.roles, m.paid_through::text AS paid_through, m.suspended_at, m.resigned_at,
+    pageSql: `SELECT m.id, m.roles, m.approved_at, m.paid_through::text AS paid_through, m.suspended_at, m.resigned_at,
         m.birth_date::text AS birth_date, m.created_at, u.name, u.email
       FROM (SELECT m.id FROM memberships m ${users} WHERE ${conditions} ORDER BY ${order} LIMIT $limit OFFSET $offset) page
       JOIN memberships m ON m.id = page.id
@@ -109,6 +110,7 @@ export async function listMembers(
     items: rows.map(r => toMemberListItem({
       id: r.id,
       roles: r.roles as MemberListItemDto['roles'],
+      approvedAt: r.approved_at,
       paidThrough: r.paid_through,
       suspendedAt: r.suspended_at,
       resignedAt: r.resigned_at,

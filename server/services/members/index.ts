@@ -1,5 +1,8 @@
 // The members domain's public surface: routes and other domains import from here, never from its files.
-export * from './actions'
+export * from './status-actions'
+export * from './edits'
+export * from './roles'
+export * from './profile'
 export * from './directory'
 export * from './members'
 export * from './standing'

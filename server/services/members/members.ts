@@ -28,7 +28,7 @@ export async function waiverStanding(clubId: string, membershipId: string): Prom
 }
 
 /** What a directory row is built from: a membership (model or raw row) with its user's name and e-mail. */
-export type MemberListSource = Pick<Membership, 'id' | 'roles' | 'paidThrough' | 'suspendedAt' | 'resignedAt' | 'birthDate' | 'createdAt'>
+export type MemberListSource = Pick<Membership, 'id' | 'roles' | 'approvedAt' | 'paidThrough' | 'suspendedAt' | 'resignedAt' | 'birthDate' | 'createdAt'>
   & { user: Pick<User, 'name' | 'email'> }
 
 /** The directory row for a membership loaded with its user, with its status at `now`. */
@@ -42,6 +42,7 @@ export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone
     paidThrough: m.paidThrough,
     joinedOn: dateInZone(m.createdAt, club.timeZone),
     junior: isJunior(m.birthDate, clubToday(club, now)),
+    approvedAt: iso(m.approvedAt),
   }
 }
 
@@ -49,7 +50,6 @@ export function toMemberListItem(m: MemberListSource, club: Pick<Club, 'timeZone
 export async function toMemberDto(m: Membership, user: User, club: Club): Promise<MemberDto> {
   return {
     ...toMemberListItem({ ...m.get(), user }, club),
-    approvedAt: iso(m.approvedAt),
     suspendedAt: iso(m.suspendedAt),
     suspendedReason: m.suspendedReason,
     resignedAt: iso(m.resignedAt),

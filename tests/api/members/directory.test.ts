@@ -204,3 +204,16 @@ describe('GET /api/members: the name and e-mail orders follow an account that ch
     expect(row!.name_key).toBe(m.name.toLowerCase())
   })
 })
+
+describe('GET /api/members: a pending row says what it waits for', () => {
+  it('carries approvedAt, so the list can tell "awaiting approval" from "approved, first dues unpaid"', async () => {
+    const tag = `pend${randomUUID().slice(0, 8)}`
+    const waiting = await makeMember({ name: `Awaiting ${tag}`, paidDays: null, approved: false })
+    const approved = await makeMember({ name: `Unpaid ${tag}`, paidDays: null })
+    const items = (await listTagged(tag, { status: 'pending' })).items
+    const byId = new Map(items.map(i => [i.id, i]))
+    expect(byId.get(waiting.memberId)).toMatchObject({ status: 'pending', approvedAt: null })
+    expect(byId.get(approved.memberId)?.status).toBe('pending')
+    expect(byId.get(approved.memberId)?.approvedAt).toMatch(/^\d{4}-\d{2}-\d{2}T/)
+  })
+})
