@@ -1,8 +1,9 @@
 /**
  * The audit trail's actions (`area.verb`): the one list of what the server may record, each with its
  * words for the audit page. `recordAudit` takes an `AuditAction`, so an action missing here does not
- * compile; the audit route's filter accepts exactly this list. Rows are never rewritten, so an action
- * stays here once recorded.
+ * compile; the audit route's filter accepts exactly this list. The app never rewrites a row (only the
+ * owner's migration 0012 once renamed three `membership.` actions to `member.`), so an action stays
+ * here once recorded.
  */
 import { formatCalendarDate, formatInstant } from './dates'
 import { fieldLabel } from './field-labels'
