@@ -1,3 +1,4 @@
+import type { Transaction } from 'sequelize'
 import type { Membership } from '../../models'
 import { isJunior, membershipStatus, statusKeepsRights, type MembershipStatus } from '#shared/utils/membership-status'
 import { rolesCan, type Capability } from '#shared/utils/permissions'
