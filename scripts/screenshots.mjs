@@ -19,6 +19,8 @@ const SHOTS = [
   { who: 'safety@hoopwise.example', path: '/waiver', name: 'waiver' },
   { who: 'member@hoopwise.example', path: '/standing', name: 'standing' },
   { who: 'member@hoopwise.example', path: '/profile', name: 'profile' },
+  { who: 'member@hoopwise.example', path: '/glossary', name: 'glossary' },
+  { who: 'member@hoopwise.example', path: '/calculator', name: 'calculator' },
 ]
 
 mkdirSync(outDir, { recursive: true })
@@ -31,7 +33,8 @@ try {
         const context = await browser.newContext({ viewport })
         const page = await context.newPage()
         await page.goto(`${baseUrl}/login`)
-        await page.waitForFunction('window.useNuxtApp?.().isHydrating === false')
+        // A function, not a string: the page's CSP forbids eval, which a string predicate needs.
+        await page.waitForFunction(() => window.useNuxtApp?.().isHydrating === false)
         await page.getByTestId('field-email').fill(shot.who)
         await page.getByTestId('field-password').fill('hoopwise-demo')
         await page.getByTestId('login-submit').click()
