@@ -9,8 +9,9 @@ import { ActionToken } from './ActionToken'
 import { Notice } from './Notice'
 import { AuditEvent } from './AuditEvent'
 import { Session } from './Session'
+import { Vessel } from './Vessel'
 
-export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session }
+export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel }
 
 /**
  * Creates a Sequelize instance for `databaseUrl` with every model initialised and associated.
@@ -25,7 +26,7 @@ export function createSequelize(databaseUrl: string): Sequelize {
     dialectOptions: { connectionTimeoutMillis: 3000 },
     pool: { max: 10, min: 0, acquire: 5000, idle: 10_000, evict: 5000 },
   })
-  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session]) {
+  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel]) {
     model.initModel(sequelize)
   }
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
@@ -33,5 +34,6 @@ export function createSequelize(databaseUrl: string): Sequelize {
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   WaiverAcceptance.belongsTo(Waiver, { foreignKey: 'waiverId', as: 'waiver' })
   Notice.belongsTo(Membership, { foreignKey: 'membershipId', as: 'membership' })
+  Vessel.belongsTo(Membership, { foreignKey: 'ownerMembershipId', as: 'owner' })
   return sequelize
 }

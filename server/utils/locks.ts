@@ -8,7 +8,7 @@ import { useDb } from './db'
 //
 //   1. memberships, in id order when there are several      lockMemberships
 //   2. the account's users row                               lockUser
-//   3. vessel                                                (vessels: lockVessel, when they land)
+//   3. the club's vessel counter, then a vessel               takeVesselNumber; lockVessel when it lands
 //   4. training session, or booking                          (training and bookings, when they land)
 //   5. payment, then the receipt counter                     (dues and payments, when they land)
 //   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
@@ -39,6 +39,19 @@ export async function lockMemberships(ids: readonly string[], transaction: Trans
 /** Locks account `userId`'s row FOR UPDATE inside `transaction` (step 2) and returns it, or null. */
 export async function lockUser(userId: string, transaction: Transaction): Promise<User | null> {
   return User.findByPk(userId, { transaction, lock: transaction.LOCK.UPDATE })
+}
+
+/**
+ * Takes club `clubId`'s next vessel number inside `transaction` (step 3): the counter on the club's
+ * row is raised under that row's lock, held until commit, so simultaneous registrations number one
+ * after the other and a rolled-back one leaves no gap. Returns the number taken, or null (no club).
+ */
+export async function takeVesselNumber(clubId: string, transaction: Transaction): Promise<{ number: number, tagPrefix: string } | null> {
+  const [row] = await useDb().query<{ number: number, tag_prefix: string }>(
+    `UPDATE clubs SET next_vessel_number = next_vessel_number + 1 WHERE id = :clubId
+      RETURNING next_vessel_number - 1 AS number, tag_prefix`,
+    { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
+  return row ? { number: row.number, tagPrefix: row.tag_prefix } : null
 }
 
 /** Locks notice `id` of club `clubId` FOR UPDATE (step 6) and returns what a retry decides on, or undefined. */

@@ -66,6 +66,9 @@ const MATRIX: Record<string, Row> = {
   'DELETE /api/me/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session of mine
   'POST /api/me/sessions/sign-out-others': signedIn(400), // not confirmed: nothing is signed out
   'GET /api/calc/air-charge': open(400), // public; no pressure or volume given
+  'POST /api/vessels': signedIn(400), // every member registers their own
+  'GET /api/vessels': signedIn(200), // a member's own; the whole club's with vessels.read_all
+  'GET /api/vessels/[id]': signedIn(404), // [id] is a membership id here: no such vessel
 }
 
 let subjectId = ''

@@ -8,6 +8,7 @@ import * as m0009 from './0009-notice-claims'
 import * as m0010 from './0010-audit-actor-by-id'
 import * as m0011 from './0011-directory-sort-keys'
 import * as m0012 from './0012-member-audit-prefix'
+import * as m0013 from './0013-vessels'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -19,4 +20,5 @@ export const migrations = [
   { name: '0010-audit-actor-by-id', ...m0010 },
   { name: '0011-directory-sort-keys', ...m0011 },
   { name: '0012-member-audit-prefix', ...m0012 },
+  { name: '0013-vessels', ...m0013 },
 ]

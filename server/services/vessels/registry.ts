@@ -1,0 +1,185 @@
+import { QueryTypes } from 'sequelize'
+import { Vessel } from '../../models'
+import type { VesselListQuery, VesselRegistration } from '#shared/schemas/vessel'
+import type { VesselDto, VesselListItemDto } from '#shared/types/vessels'
+import type { Paged } from '#shared/types/common'
+import { vesselTag } from '#shared/utils/vessel-states'
+
+/** Who is looking at vessels: their club, their membership, and whether they see every member's. */
+export interface VesselViewer {
+  clubId: string
+  membershipId: string
+  readAll: boolean
+}
+
+/** The registering member, as the service needs them. */
+export interface VesselOwner {
+  clubId: string
+  membershipId: string
+  name: string
+}
+
+const num = (v: string | number | null): number | null => (v === null ? null : Number(v))
+
+/** A vessel's DTO from its row and its owner's name. */
+function toVesselDto(v: Vessel, ownerName: string): VesselDto {
+  return {
+    id: v.id,
+    tag: v.tag,
+    name: v.name,
+    construction: v.construction,
+    state: v.state,
+    volumeL: Number(v.volumeL),
+    diameterMm: Number(v.diameterMm),
+    owner: { id: v.ownerMembershipId, name: ownerName },
+    registeredAt: v.createdAt.toISOString(),
+    lengthMm: num(v.lengthMm),
+    emptyMassG: num(v.emptyMassG),
+    metalInPressurePath: v.metalInPressurePath,
+    fibreClass: v.fibreClass,
+    arealWeightGPerM2: num(v.arealWeightGPerM2),
+    weave: v.weave,
+    plies: v.plies,
+    resin: v.resin,
+    lastLayupOn: v.lastLayupOn,
+    updatedAt: v.updatedAt.toISOString(),
+  }
+}
+
+/**
+ * Registers a vessel for `owner`: the club's next number makes its tag (SRG-0042), and it starts
+ * awaiting its first proof. The number is taken under the club's counter lock, in the same
+ * transaction as the insert, so tags never repeat or skip.
+ */
+export async function registerVessel(owner: VesselOwner, input: VesselRegistration): Promise<VesselDto> {
+  return inTransaction(async (transaction) => {
+    const taken = await takeVesselNumber(owner.clubId, transaction)
+    if (!taken) notFound('No such club')
+    const vessel = await Vessel.create({
+      clubId: owner.clubId,
+      ownerMembershipId: owner.membershipId,
+      number: taken.number,
+      tag: vesselTag(taken.tagPrefix, taken.number),
+      name: input.name,
+      construction: input.construction,
+      volumeL: input.volumeL,
+      diameterMm: input.diameterMm,
+      lengthMm: input.lengthMm ?? null,
+      emptyMassG: input.emptyMassG ?? null,
+      metalInPressurePath: input.metalInPressurePath,
+      fibreClass: input.fibreClass ?? null,
+      arealWeightGPerM2: input.arealWeightGPerM2 ?? null,
+      weave: input.weave ?? null,
+      plies: input.plies ?? null,
+      resin: input.fibreClass ? input.resin ?? null : null,
+      lastLayupOn: input.fibreClass ? input.lastLayupOn ?? null : null,
+      state: 'awaiting_proof',
+    }, { transaction })
+    return toVesselDto(vessel, owner.name)
+  })
+}
+
+/**
+ * Vessel `id` as `viewer` may see it, or null: another member's vessel exists for the viewer only
+ * with vessels.read_all (the route answers 404 otherwise, never telling "not yours" from "missing").
+ */
+export async function getVessel(viewer: VesselViewer, id: string): Promise<VesselDto | null> {
+  const where = viewer.readAll ? { id, clubId: viewer.clubId } : { id, clubId: viewer.clubId, ownerMembershipId: viewer.membershipId }
+  const vessel = await Vessel.findOne({ where })
+  if (!vessel) return null
+  const [owner] = await useDb().query<{ name: string }>(
+    'SELECT u.name FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $id',
+    { bind: { id: vessel.ownerMembershipId }, type: QueryTypes.SELECT })
+  return toVesselDto(vessel, owner?.name ?? '')
+}
+
+/** ORDER BY for each sort field; the vessel id breaks ties so pages never overlap or skip. */
+const ORDER_SQL: Record<VesselListQuery['sort'], (dir: 'ASC' | 'DESC') => string> = {
+  tag: dir => `v.number ${dir}, v.id ${dir}`,
+  name: dir => `lower(v.name) ${dir}, v.id ${dir}`,
+  // The owner's name, copied lower-cased onto the membership (migration 0011).
+  owner: dir => `m.name_key ${dir}, v.number ${dir}, v.id ${dir}`,
+  registered: dir => `v.created_at ${dir}, v.id ${dir}`,
+}
+
+/** `text` as a LIKE pattern that matches it anywhere, with LIKE's wildcards taken literally. */
+function containsPattern(text: string): string {
+  return `%${text.toLowerCase().replace(/[\\%_]/g, c => `\\${c}`)}%`
+}
+
+interface VesselListRow {
+  id: string
+  tag: string
+  name: string
+  construction: VesselListItemDto['construction']
+  state: VesselListItemDto['state']
+  volume_l: string
+  diameter_mm: string
+  owner_membership_id: string
+  owner_name: string
+  created_at: Date
+}
+
+/**
+ * One page of vessels `viewer` may see: their own, or the club's with vessels.read_all; filtered by
+ * state, construction and owner, searched by tag or owner name (case-insensitive substring), sorted
+ * and paged on the server (a COUNT and the page, never the whole table).
+ */
+export async function listVessels(viewer: VesselViewer, query: VesselListQuery): Promise<Paged<VesselListItemDto>> {
+  const bind: Record<string, unknown> = { clubId: viewer.clubId }
+  const where = ['v.club_id = $clubId']
+  // A member sees their own whatever the owner filter says.
+  if (!viewer.readAll) {
+    where.push('v.owner_membership_id = $self')
+    bind.self = viewer.membershipId
+  }
+  else if (query.owner) {
+    where.push('v.owner_membership_id = $owner')
+    bind.owner = query.owner
+  }
+  if (query.state) {
+    where.push('v.state = $state')
+    bind.state = query.state
+  }
+  if (query.construction) {
+    where.push('v.construction = $construction')
+    bind.construction = query.construction
+  }
+  const q = query.q?.split('\u0000').join('').trim()
+  if (q) {
+    where.push('(lower(v.tag) LIKE $pattern OR m.name_key LIKE $pattern)')
+    bind.pattern = containsPattern(q)
+  }
+  const conditions = where.join(' AND ')
+  const order = ORDER_SQL[query.sort](query.dir === 'desc' ? 'DESC' : 'ASC')
+  const db = useDb()
+  const [counted] = await db.query<{ total: number }>(
+    `SELECT count(*)::int AS total FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id WHERE ${conditions}`,
+    { bind, type: QueryTypes.SELECT })
+  const total = counted?.total ?? 0
+  const offset = (query.page - 1) * query.pageSize
+  const rows = offset >= total
+    ? []
+    : await db.query<VesselListRow>(
+        `SELECT v.id, v.tag, v.name, v.construction, v.state, v.volume_l, v.diameter_mm, v.owner_membership_id,
+          u.name AS owner_name, v.created_at
+        FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
+        WHERE ${conditions} ORDER BY ${order} LIMIT $limit OFFSET $offset`,
+        { bind: { ...bind, limit: query.pageSize, offset }, type: QueryTypes.SELECT })
+  return {
+    items: rows.map(r => ({
+      id: r.id,
+      tag: r.tag,
+      name: r.name,
+      construction: r.construction,
+      state: r.state,
+      volumeL: Number(r.volume_l),
+      diameterMm: Number(r.diameter_mm),
+      owner: { id: r.owner_membership_id, name: r.owner_name },
+      registeredAt: r.created_at.toISOString(),
+    })),
+    page: query.page,
+    pageSize: query.pageSize,
+    total,
+  }
+}
