@@ -5,6 +5,7 @@ import { DEMO_TIME_ZONE } from './context'
 import { seedClub } from './club'
 import { seedMembers } from './members'
 import { seedWaiver } from './waiver'
+import { seedVessels } from './vessels'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -14,6 +15,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedClub,
   seedMembers,
   seedWaiver,
+  seedVessels,
 ]
 
 /** Seeds the demo club in one transaction. */
