@@ -81,6 +81,33 @@ describe('POST /api/vessels: a member registers a vessel and the club assigns th
   it('answers 401 when signed out', async () => {
     expect((await api('/api/vessels', { method: 'POST', body: bottle('Nobody') })).status).toBe(401)
   })
+
+  it('keeps another club\'s vessels from the demo club\'s officers (404, and not in their list)', async () => {
+    const res = await register(owner.cookie, bottle('Far Away'))
+    expect((await api(`/api/vessels/${res.body.id}`, { as: 'safety' })).status).toBe(404)
+    const list = await api<Page>('/api/vessels', { as: 'safety', query: { q: res.body.tag } })
+    expect(list.body.total).toBe(0)
+  })
+
+  it.each([
+    ['a zero volume', `volume_l = 0`],
+    ['a negative diameter', `diameter_mm = -1`],
+    ['an unknown state', `state = 'exploded'`],
+    ['half a laminate', `fibre_class = 'carbon'`],
+    ['a tag that is not PREFIX-number', `tag = 'srg-1'`],
+  ])('refuses %s in the database itself', async (_label, change) => {
+    // A plain bottle, no laminate: any part of one is only half of it.
+    const [row] = await sql<{ id: string }>(`SELECT id FROM vessels WHERE owner_membership_id = $1 AND construction = 'single_bottle' LIMIT 1`, [owner.memberId])
+    await expect(sql(`UPDATE vessels SET ${change} WHERE id = $1`, [row!.id])).rejects.toThrow(/check constraint/)
+  })
+
+  it('refuses a second vessel with a number or tag the club has used (unique keys)', async () => {
+    const [row] = await sql<{ club_id: string, number: number, tag: string }>('SELECT club_id, number, tag FROM vessels WHERE owner_membership_id = $1 LIMIT 1', [owner.memberId])
+    await expect(sql(`INSERT INTO vessels (club_id, owner_membership_id, number, tag, name, construction, volume_l, diameter_mm)
+      VALUES ($1, $2, $3, $4, 'Copy', 'single_bottle', 1, 90)`, [row!.club_id, owner.memberId, row!.number, `${prefix}-9999`])).rejects.toThrow(/duplicate key/)
+    await expect(sql(`INSERT INTO vessels (club_id, owner_membership_id, number, tag, name, construction, volume_l, diameter_mm)
+      VALUES ($1, $2, 9999, $3, 'Copy', 'single_bottle', 1, 90)`, [row!.club_id, owner.memberId, row!.tag])).rejects.toThrow(/duplicate key/)
+  })
 })
 
 describe('GET /api/vessels and /api/vessels/[id]: members see their own, officers see all', () => {
