@@ -1,7 +1,7 @@
 import { AirChargeQuerySchema } from '#shared/schemas/calc'
 import type { AirChargeDto } from '#shared/types/calc'
 import { airCharge } from '#shared/utils/vessel-arithmetic'
-import { defaultDistanceRule } from '../../services/vessels/distance-rule'
+import { clubDistanceRule } from '../../services/vessels'
 
 /**
  * The stored energy of an air charge, its TNT equivalent and the minimum distance to people (ASME
@@ -9,7 +9,9 @@ import { defaultDistanceRule } from '../../services/vessels/distance-rule'
  */
 export default defineEventHandler(async (event): Promise<AirChargeDto> => {
   const query = validQuery(event, AirChargeQuerySchema)
-  const distanceRule = query.distanceRule ?? await defaultDistanceRule(event)
+  // A signed-in member's club decides the default rule; the session is read if present, never required.
+  const { user } = await getUserSession(event)
+  const distanceRule = query.distanceRule ?? await clubDistanceRule(user?.clubId ?? null)
   return calculate(() => airCharge({
     gaugePressure: query.pressure,
     unit: query.unit,
