@@ -1,3 +1,4 @@
+import { containsPattern } from '../../utils/like-pattern'
 import { QueryTypes } from 'sequelize'
 import type { Club } from '../../models'
 import type { MemberDirectoryQuery } from '#shared/schemas/member'
@@ -19,11 +20,6 @@ const ORDER_SQL: Record<MemberDirectoryQuery['sort'], (dir: 'ASC' | 'DESC') => s
   // Never-paid members (no date) come last whichever way the dates run.
   paidThrough: dir => `m.paid_through ${dir} NULLS LAST, m.id ${dir}`,
   joined: dir => `m.created_at ${dir}, m.id ${dir}`,
-}
-
-/** `text` as a LIKE pattern that matches it anywhere, with LIKE's wildcards taken literally. */
-function containsPattern(text: string): string {
-  return `%${text.toLowerCase().replace(/[\\%_]/g, c => `\\${c}`)}%`
 }
 
 interface DirectoryRow {

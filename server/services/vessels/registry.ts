@@ -1,3 +1,4 @@
+import { containsPattern } from '../../utils/like-pattern'
 import { QueryTypes } from 'sequelize'
 import { Vessel } from '../../models'
 import type { VesselListQuery, VesselRegistration } from '#shared/schemas/vessel'
@@ -100,11 +101,6 @@ const ORDER_SQL: Record<VesselListQuery['sort'], (dir: 'ASC' | 'DESC') => string
   // The owner's name, copied lower-cased onto the membership (migration 0011).
   owner: dir => `m.name_key ${dir}, v.number ${dir}, v.id ${dir}`,
   registered: dir => `v.created_at ${dir}, v.id ${dir}`,
-}
-
-/** `text` as a LIKE pattern that matches it anywhere, with LIKE's wildcards taken literally. */
-function containsPattern(text: string): string {
-  return `%${text.toLowerCase().replace(/[\\%_]/g, c => `\\${c}`)}%`
 }
 
 interface VesselListRow {
