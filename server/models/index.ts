@@ -10,8 +10,9 @@ import { Notice } from './Notice'
 import { AuditEvent } from './AuditEvent'
 import { Session } from './Session'
 import { Vessel } from './Vessel'
+import { Photo } from './Photo'
 
-export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel }
+export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel, Photo }
 
 /**
  * Creates a Sequelize instance for `databaseUrl` with every model initialised and associated.
@@ -26,7 +27,7 @@ export function createSequelize(databaseUrl: string): Sequelize {
     dialectOptions: { connectionTimeoutMillis: 3000 },
     pool: { max: 10, min: 0, acquire: 5000, idle: 10_000, evict: 5000 },
   })
-  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel]) {
+  for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel, Photo]) {
     model.initModel(sequelize)
   }
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
