@@ -26,4 +26,26 @@ export interface VesselDto extends VesselListItemDto {
   resin: string | null
   lastLayupOn: string | null
   updatedAt: string
+  proof: VesselProofStandingDto
+}
+
+/**
+ * Where a vessel stands with its proof, derived when read. `effectiveState` adds the derived
+ * `retest_due` (in service, but the proof has lapsed by time, fill count or an event) to the stored state.
+ */
+export interface VesselProofStandingDto {
+  effectiveState: VesselState | 'retest_due'
+  /** Rated fill (bar gauge) from the last passed proof, or null when the vessel has none in force. */
+  ratedFillBar: number | null
+  /** Date of the last passed proof test (YYYY-MM-DD), or null. */
+  lastProofOn: string | null
+  fillsSinceProof: number
+  /** Fills still allowed before the proof lapses by count, or null without a proof. */
+  fillsRemaining: number | null
+  /** Last day the proof is current by time (inclusive), or null without a proof. */
+  validThroughOn: string | null
+  /** Why the proof has lapsed (empty while it stands). */
+  lapseReasons: { code: string, message: string }[]
+  /** The cure clock: first day a proof may be recorded after the last layup, or null without a layup. */
+  earliestProofOn: string | null
 }

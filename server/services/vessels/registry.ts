@@ -5,6 +5,7 @@ import type { VesselListQuery, VesselRegistration } from '#shared/schemas/vessel
 import type { VesselDto, VesselListItemDto } from '#shared/types/vessels'
 import type { Paged } from '#shared/types/common'
 import { vesselTag } from '#shared/utils/vessel-states'
+import { DEFAULT_PROOF_POLICY, earliestProofDate } from '#shared/utils/vessel-arithmetic'
 
 /** Who is looking at vessels: their club, their membership, and whether they see every member's. */
 export interface VesselViewer {
@@ -44,6 +45,17 @@ function toVesselDto(v: Vessel, ownerName: string): VesselDto {
     resin: v.resin,
     lastLayupOn: v.lastLayupOn,
     updatedAt: v.updatedAt.toISOString(),
+    // Until proof tests are recorded a vessel has no rated fill; the cure clock uses the default wait.
+    proof: {
+      effectiveState: v.state,
+      ratedFillBar: null,
+      lastProofOn: null,
+      fillsSinceProof: 0,
+      fillsRemaining: null,
+      validThroughOn: null,
+      lapseReasons: [],
+      earliestProofOn: v.lastLayupOn ? earliestProofDate(v.lastLayupOn, DEFAULT_PROOF_POLICY.cureWaitDays) : null,
+    },
   }
 }
 
