@@ -177,7 +177,9 @@ export async function listVessels(viewer: VesselViewer, query: VesselListQuery):
     where.push(`v.state = 'in_service' AND (SELECT (max(p.tested_on) + make_interval(months => CASE v.construction
       ${VESSEL_CONSTRUCTIONS.map((c, i) => `WHEN '${c}' THEN $interval${i}::int`).join(' ')} END))::date
       FROM proof_tests p WHERE p.vessel_id = v.id AND p.result = 'pass') <= $lapsingBy::date`)
-    VESSEL_CONSTRUCTIONS.forEach((c, i) => { bind[`interval${i}`] = policyIntervalMonths(rules.policy, c) })
+    VESSEL_CONSTRUCTIONS.forEach((c, i) => {
+      bind[`interval${i}`] = policyIntervalMonths(rules.policy, c)
+    })
     bind.lapsingBy = addCalendarDays(rules.today, LAPSING_WITHIN_DAYS)
   }
   const q = query.q?.split('\u0000').join('').trim()
