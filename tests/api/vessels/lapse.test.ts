@@ -59,11 +59,16 @@ describe('"proof lapsing in 30 days"', () => {
     // Passed 350 days ago: current through 12 months after, about two weeks from now.
     const soon = await passed(350, 'single_bottle', 'Lapsing soon')
     const due = await passed(400, 'single_bottle', 'Retest due')
-    await passed(10, 'single_bottle', 'Fresh proof')
-    await makeVessel({ ownerId: c.owner.memberId, name: 'Never tested' })
+    const fresh = await passed(10, 'single_bottle', 'Fresh proof')
+    const { vesselId: untested } = await makeVessel({ ownerId: c.owner.memberId, name: 'Never tested' })
     const res = await api<Paged<VesselListItemDto>>('/api/vessels', { as: c.safety.cookie, query: { lapsing: '1', pageSize: 100 } })
     expect(res.status).toBe(200)
-    expect(res.body.items.map(v => v.id).sort()).toEqual([soon, due].sort())
+    const ids = res.body.items.map(v => v.id)
+    expect(ids).toEqual(expect.arrayContaining([soon, due]))
+    expect(ids).not.toContain(fresh)
+    expect(ids).not.toContain(untested)
+    // Every vessel listed (this file's earlier ones too) is retest due or current for at most 30 more days.
+    expect(res.body.items.filter(v => !(v.effectiveState === 'retest_due' || (v.validThroughOn && v.validThroughOn <= clubDay(30))))).toEqual([])
     const item = res.body.items.find(v => v.id === soon)!
     expect(item).toMatchObject({ effectiveState: 'in_service', ratedFillBar: 10, validThroughOn: plusMonths(clubDay(-350), 12) })
     expect(res.body.items.find(v => v.id === due)).toMatchObject({ effectiveState: 'retest_due', ratedFillBar: null })

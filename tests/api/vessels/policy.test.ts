@@ -47,7 +47,8 @@ describe('the club\'s vessel policy', () => {
   })
 
   it('the database refuses a margin below 1.25 whatever the code says', async () => {
-    await expect(sql('UPDATE vessel_policies SET margin_ratio = 1.2 WHERE club_id = $1', [c.clubId])).rejects.toThrow(/check/i)
+    await expect(sql(`INSERT INTO vessel_policies (club_id, margin_ratio) VALUES ($1, 1.2)
+      ON CONFLICT (club_id) DO UPDATE SET margin_ratio = 1.2`, [c.clubId])).rejects.toThrow(/check/i)
   })
 
   it('saves a change, audits it with before and after, and the rules follow it', async () => {
