@@ -57,7 +57,7 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'notice.retry': { label: 'Retried a notice', meaning: 'An officer put a failed or skipped e-mail back in the queue.' },
   'notice.run': { label: 'Sent due e-mails now', meaning: 'An admin ran the reminder scans and the queue at once instead of waiting for the next run.' },
   'vessel.proof_test': { label: 'Recorded a proof test', meaning: 'An instructor witnessed a vessel\'s proof test; a pass rated it and put it in service, a leak sent it back for repair, a burst failed it.' },
-  'vessel.report': { label: 'Reported a repair, damage or heat exposure', meaning: 'Something that ends a proof happened to a vessel; it waits for a new proof test.' },
+  'vessel.report': { label: 'Reported what ends a proof', meaning: 'Something that ends a proof happened to a vessel; it waits for a new proof test.' },
   'vessel.quarantine': { label: 'Quarantined a vessel', meaning: 'The safety officer held a vessel: no fills until it is reviewed and released.' },
   'vessel.release': { label: 'Released a vessel', meaning: 'The safety officer released a quarantined vessel; it needs a new proof test before any fill.' },
   'vessel.retire': { label: 'Retired a vessel', meaning: 'Its owner or the safety officer took a vessel out of use for good.' },
