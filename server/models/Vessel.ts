@@ -27,6 +27,8 @@ export class Vessel extends Model {
   declare resin: string | null
   declare state: VesselState
   declare lastLayupOn: string | null
+  /** When the owner asked for a proof test; cleared when one is recorded. */
+  declare proofRequestedAt: Date | null
   declare createdAt: Date
   declare updatedAt: Date
   declare owner?: Membership
@@ -52,6 +54,7 @@ export class Vessel extends Model {
       resin: { type: DataTypes.TEXT, allowNull: true },
       state: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'awaiting_proof' },
       lastLayupOn: { type: DataTypes.DATEONLY, allowNull: true },
+      proofRequestedAt: { type: DataTypes.DATE, allowNull: true },
     }, { sequelize, modelName: 'vessel', tableName: 'vessels', underscored: true })
   }
 }

@@ -1,5 +1,5 @@
 import { QueryTypes, type Transaction } from 'sequelize'
-import { Membership, User } from '../models'
+import { Membership, User, Vessel } from '../models'
 import { useDb } from './db'
 
 // THE LOCK ORDER. Every row lock a request takes comes from this file, and one transaction takes
@@ -52,6 +52,15 @@ export async function takeVesselNumber(clubId: string, transaction: Transaction)
       RETURNING next_vessel_number - 1 AS number, tag_prefix`,
     { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
   return row ? { number: row.number, tagPrefix: row.tag_prefix } : null
+}
+
+/**
+ * Locks vessel `id` of club `clubId` FOR UPDATE inside `transaction` (step 3, after the club's vessel
+ * counter) and returns it, or null: proof tests, reports, quarantine and retirement read its state and
+ * change it under this lock, so two of them never both start from the same state.
+ */
+export async function lockVessel(clubId: string, id: string, transaction: Transaction): Promise<Vessel | null> {
+  return Vessel.findOne({ where: { id, clubId }, transaction, lock: transaction.LOCK.UPDATE })
 }
 
 /** Locks notice `id` of club `clubId` FOR UPDATE (step 6) and returns what a retry decides on, or undefined. */

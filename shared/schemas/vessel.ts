@@ -53,6 +53,8 @@ export const VesselListQuerySchema = PageQuerySchema.extend({
   state: z.enum(VESSEL_STATES).optional(),
   construction: z.enum(VESSEL_CONSTRUCTIONS).optional(),
   owner: z.string().uuid('Not a valid id').transform(id => id.toLowerCase()).optional(),
+  // "Proof lapsing in 30 days": in service with a proof current through the next 30 days, or already due.
+  lapsing: z.enum(['1', 'true'], { errorMap: () => ({ message: 'Use lapsing=1' }) }).transform(() => true).optional(),
   sort: z.enum(VESSEL_SORT_FIELDS).default('tag'),
   dir: z.enum(['asc', 'desc']).default('asc'),
 })

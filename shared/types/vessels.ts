@@ -1,5 +1,6 @@
 import type { VesselConstruction, Weave } from '../utils/vessel-arithmetic'
 import type { VesselFibreClass, VesselState } from '../utils/vessel-states'
+import type { EffectiveVesselState } from '../utils/vessel-transitions'
 
 /** Vessels in the club's registry. Plain objects the routes return, never model instances. */
 
@@ -13,6 +14,12 @@ export interface VesselListItemDto {
   diameterMm: number
   owner: { id: string, name: string }
   registeredAt: string
+  /** The stored state, or `retest_due` when an in-service vessel's proof has lapsed. */
+  effectiveState: EffectiveVesselState
+  /** Rated fill (bar gauge) while the vessel is in service with its proof standing, else null. */
+  ratedFillBar: number | null
+  /** Last day the in-force proof is current by time (inclusive), or null. */
+  validThroughOn: string | null
 }
 
 export interface VesselDto extends VesselListItemDto {
@@ -34,7 +41,7 @@ export interface VesselDto extends VesselListItemDto {
  * `retest_due` (in service, but the proof has lapsed by time, fill count or an event) to the stored state.
  */
 export interface VesselProofStandingDto {
-  effectiveState: VesselState | 'retest_due'
+  effectiveState: EffectiveVesselState
   /** Rated fill (bar gauge) from the last passed proof, or null when the vessel has none in force. */
   ratedFillBar: number | null
   /** Date of the last passed proof test (YYYY-MM-DD), or null. */
@@ -48,4 +55,6 @@ export interface VesselProofStandingDto {
   lapseReasons: { code: string, message: string }[]
   /** The cure clock: first day a proof may be recorded after the last layup, or null without a layup. */
   earliestProofOn: string | null
+  /** When the owner asked for a proof test that is not yet recorded, or null. */
+  proofRequestedAt: string | null
 }

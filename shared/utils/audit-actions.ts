@@ -29,6 +29,12 @@ export const AUDIT_ACTIONS = [
   'waiver.publish',
   'notice.retry',
   'notice.run',
+  'vessel.proof_test',
+  'vessel.report',
+  'vessel.quarantine',
+  'vessel.release',
+  'vessel.retire',
+  'policy.vessels',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -50,6 +56,12 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'waiver.publish': { label: 'Published a waiver version', meaning: 'A new waiver version came into force; every member is asked to accept it.' },
   'notice.retry': { label: 'Retried a notice', meaning: 'An officer put a failed or skipped e-mail back in the queue.' },
   'notice.run': { label: 'Sent due e-mails now', meaning: 'An admin ran the reminder scans and the queue at once instead of waiting for the next run.' },
+  'vessel.proof_test': { label: 'Recorded a proof test', meaning: 'An instructor witnessed a vessel\'s proof test; a pass rated it and put it in service, a leak sent it back for repair, a burst failed it.' },
+  'vessel.report': { label: 'Reported what ends a proof', meaning: 'Something that ends a proof happened to a vessel; it waits for a new proof test.' },
+  'vessel.quarantine': { label: 'Quarantined a vessel', meaning: 'The safety officer held a vessel: no fills until it is reviewed and released.' },
+  'vessel.release': { label: 'Released a vessel', meaning: 'The safety officer released a quarantined vessel; it needs a new proof test before any fill.' },
+  'vessel.retire': { label: 'Retired a vessel', meaning: 'Its owner or the safety officer took a vessel out of use for good.' },
+  'policy.vessels': { label: 'Changed the vessel policy', meaning: 'The safety officer changed the proof margin, intervals, fill limits, cure wait, air tests or distance rule.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -69,6 +81,7 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   waiver: 'A waiver version',
   notice: 'An e-mail in the outbox',
   club: 'The club',
+  vessel: 'A vessel',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -36,6 +36,22 @@ export const FIELD_LABELS: Record<string, string> = {
   retried: 'To try again later',
   failed: 'Failed',
   skipped: 'Skipped (opted out)',
+  // Vessels, proof tests and the vessel policy
+  state: 'Vessel state',
+  result: 'Proof result',
+  medium: 'Test medium',
+  pressureBar: 'Test pressure (bar)',
+  ratedFillBar: 'Rated fill (bar)',
+  kind: 'What happened',
+  happenedOn: 'On',
+  newLayupOn: 'New layup date',
+  marginRatio: 'Proof margin',
+  intervalMonths: 'Proof interval (months)',
+  fillLimit: 'Fill limit',
+  cureWaitDays: 'Cure wait (days)',
+  airTestsAllowed: 'Air proof tests allowed',
+  distanceRule: 'Distance rule',
+  kProcess: 'Hand-layup process factor',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

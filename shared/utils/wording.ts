@@ -8,6 +8,9 @@ import { MEMBERSHIP_STATUS_LABELS, type MembershipStatus } from './membership-st
 /** The short caution on the sign-up and guardian-consent pages and in every e-mail about joining. */
 export const JOINING_CAUTION = 'Water rockets store real energy. Hoopwise keeps the club\'s records; the club\'s own rules, local codes and its qualified people always apply, and nobody fills a vessel before they are trained for it.'
 
+/** The caution with every proof test and pressure figure, on pages and in e-mails about vessels. */
+export const PRESSURE_CAUTION = 'Proof-test full of water, from a distance, behind a barrier, and let nobody stand over a pressurised vessel. The club\'s rules, local codes and its qualified people come first.'
+
 /** The glossary's closing caution: the app's words explain, the club and the law decide. */
 export const GLOSSARY_CAUTION = 'These explanations help you read the app. They do not replace the club\'s rules, local codes or the judgement of the club\'s qualified people, which always come first.'
 

@@ -69,6 +69,16 @@ const MATRIX: Record<string, Row> = {
   'POST /api/vessels': signedIn(400), // every member registers their own
   'GET /api/vessels': signedIn(200), // a member's own; the whole club's with vessels.read_all
   'GET /api/vessels/[id]': signedIn(404), // [id] is a membership id here: no such vessel
+  'POST /api/vessels/[id]/proof-requests': signedIn(404), // the owner's own; no body, no such vessel
+  'GET /api/proof-requests': only(200, 'instructor', 'safety'), // the demo safety officer is an instructor too
+  'POST /api/vessels/[id]/proof-tests': only(400, 'instructor', 'safety'), // witnesses only; the demo safety officer is an instructor
+  'GET /api/vessels/[id]/proof-tests': signedIn(404), // whoever may see the vessel; no such vessel
+  'POST /api/vessels/[id]/events': signedIn(400), // the owner or an officer with vessels.read_all
+  'POST /api/vessels/[id]/quarantine': only(400, 'safety'),
+  'POST /api/vessels/[id]/release': only(400, 'safety'),
+  'POST /api/vessels/[id]/retire': signedIn(400), // the owner or the safety officer
+  'GET /api/vessel-policy': signedIn(200),
+  'PUT /api/vessel-policy': only(400, 'safety'),
 }
 
 let subjectId = ''

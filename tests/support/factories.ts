@@ -353,3 +353,59 @@ export async function makeRateLimit(o: { key: string, points: number, expiresInM
     [o.key, o.points, Date.now() + (o.expiresInMs ?? 60 * 60 * 1000)], o.db)
   return { key: o.key }
 }
+
+// ---------------------------------------------------------------------------------------------
+// Vessels, their proof tests and events (dates as YYYY-MM-DD, e.g. clubDay(-400) for a proof 400 days old).
+
+export interface VesselOverrides {
+  /** The owner's membership id. */
+  ownerId: string
+  name?: string
+  construction?: 'single_bottle' | 'spliced_bottles' | 'overwrapped_liner' | 'mandrel_tube' | 'other'
+  state?: 'awaiting_proof' | 'in_service' | 'quarantined' | 'failed' | 'retired'
+  /** An e-glass laminate with this layup date (default: a laminate, undated, for laid-up constructions). */
+  lastLayupOn?: string | null
+  volumeL?: number
+  db?: string
+}
+
+/** A vessel owned by `ownerId`, in its owner's club, numbered from the club's counter; awaiting proof unless given. */
+export async function makeVessel(o: VesselOverrides): Promise<{ vesselId: string, tag: string }> {
+  const [m] = await sql<{ club_id: string }>('SELECT club_id FROM memberships WHERE id = $1', [o.ownerId], o.db)
+  const [taken] = await sql<{ number: number, tag_prefix: string }>(
+    `UPDATE clubs SET next_vessel_number = next_vessel_number + 1 WHERE id = $1
+      RETURNING next_vessel_number - 1 AS number, tag_prefix`, [m!.club_id], o.db)
+  const construction = o.construction ?? 'single_bottle'
+  const laminate = o.lastLayupOn != null || construction === 'overwrapped_liner' || construction === 'mandrel_tube'
+  const tag = `${taken!.tag_prefix}-${String(taken!.number).padStart(4, '0')}`
+  const vesselId = await insertRow('vessels', {
+    clubId: m!.club_id, ownerMembershipId: o.ownerId, number: taken!.number, tag, name: o.name ?? `Test vessel ${taken!.number}`,
+    construction, volumeL: o.volumeL ?? 2, diameterMm: 102, state: o.state ?? 'awaiting_proof',
+    ...(laminate ? { fibreClass: 'e_glass', arealWeightGPerM2: 300, weave: 'woven_0_90', plies: 3, lastLayupOn: o.lastLayupOn ?? null } : {}),
+  }, o.db)
+  return { vesselId, tag }
+}
+
+/** A recorded proof test (a pass at 15 bar with margin 1.5 unless given); the vessel's state is not changed. */
+export async function makeProofTest(o: { vesselId: string, witnessId: string, testedOn: string, pressureBar?: number, result?: 'pass' | 'leak' | 'permanent_deformation' | 'burst', marginRatio?: number, db?: string }): Promise<{ proofTestId: string }> {
+  const [v] = await sql<{ club_id: string }>('SELECT club_id FROM vessels WHERE id = $1', [o.vesselId], o.db)
+  const result = o.result ?? 'pass'
+  const pressureBar = o.pressureBar ?? 15
+  const margin = o.marginRatio ?? 1.5
+  const proofTestId = await insertRow('proof_tests', {
+    clubId: v!.club_id, vesselId: o.vesselId, witnessMembershipId: o.witnessId, testedOn: o.testedOn, pressureBar, result,
+    failureLocation: result === 'pass' ? null : 'wall', marginRatio: result === 'pass' ? margin : null,
+    ratedFillBar: result === 'pass' ? Math.floor((pressureBar / margin) * 100) / 100 : null,
+  }, o.db)
+  return { proofTestId }
+}
+
+/** A photo row (no file) of `purpose` for vessel `vesselId`, uploaded by `uploaderId`. */
+export async function makePhotoRecord(o: { vesselId: string, uploaderId: string, purpose?: 'build' | 'gauge', db?: string }): Promise<{ photoId: string }> {
+  const [v] = await sql<{ club_id: string }>('SELECT club_id FROM vessels WHERE id = $1', [o.vesselId], o.db)
+  const photoId = await insertRow('photos', {
+    clubId: v!.club_id, vesselId: o.vesselId, uploadedByMembershipId: o.uploaderId, purpose: o.purpose ?? 'gauge',
+    contentType: 'image/jpeg', byteSize: 1000, width: 10, height: 10,
+  }, o.db)
+  return { photoId }
+}

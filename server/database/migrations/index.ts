@@ -10,6 +10,7 @@ import * as m0011 from './0011-directory-sort-keys'
 import * as m0012 from './0012-member-audit-prefix'
 import * as m0013 from './0013-vessels'
 import * as m0014 from './0014-photos'
+import * as m0015 from './0015-proof-tests'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -23,4 +24,5 @@ export const migrations = [
   { name: '0012-member-audit-prefix', ...m0012 },
   { name: '0013-vessels', ...m0013 },
   { name: '0014-photos', ...m0014 },
+  { name: '0015-proof-tests', ...m0015 },
 ]

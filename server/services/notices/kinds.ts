@@ -3,7 +3,7 @@
  * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
  */
 import { tokenLifetimeWords } from '../accounts'
-import { JOINING_CAUTION } from '#shared/utils/wording'
+import { JOINING_CAUTION, PRESSURE_CAUTION } from '#shared/utils/wording'
 
 export interface NoticeVars {
   clubName: string
@@ -112,6 +112,18 @@ export const NOTICE_KINDS = {
       `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep your membership in good standing without a gap.`,
       'Paid dues keep your membership; they do not by themselves allow a fill. Filling also takes your training and tier, a vessel in service and the club\'s rules on the day.',
     ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
+  // Safety: a vessel whose proof lapses is not filled; the owner hears 30 days ahead.
+  proof_lapsing: {
+    optional: false,
+    label: 'Proof lapsing in 30 days',
+    description: 'Sent 30 days before a vessel\'s proof test stops being current.',
+    render: v => notice(`The proof of ${v.vesselTag} ${v.vesselName} lapses on ${longDate(v.validThrough)}`, [
+      `Hello ${v.memberName},`,
+      `The proof test of your vessel ${v.vesselTag} (${v.vesselName}) is current through ${longDate(v.validThrough)}. After that day it may not be filled until an instructor witnesses a new proof test.`,
+      'Ask for a proof test on the vessel\'s page in good time. A repair, damage, a crash or heat exposure ends the proof sooner: report it, and do not fill the vessel.',
+      PRESSURE_CAUTION,
+    ], { label: 'See the vessel', url: `${v.baseUrl}/vessels/${v.vesselTag}` }),
   },
 } satisfies Record<string, NoticeKind>
 

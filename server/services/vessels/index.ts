@@ -1,3 +1,9 @@
 // The vessels domain's public surface: routes and other domains import from here, never from its files.
 export * from './distance-rule'
 export * from './registry'
+export * from './policy'
+export * from './standing'
+export * from './proof-tests'
+export * from './proof-requests'
+export * from './life-cycle'
+export * from './lapsing'

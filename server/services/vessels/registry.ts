@@ -2,10 +2,14 @@ import { containsPattern } from '../../utils/like-pattern'
 import { QueryTypes } from 'sequelize'
 import { Vessel } from '../../models'
 import type { VesselListQuery, VesselRegistration } from '#shared/schemas/vessel'
-import type { VesselDto, VesselListItemDto } from '#shared/types/vessels'
+import type { VesselDto, VesselListItemDto, VesselProofStandingDto } from '#shared/types/vessels'
 import type { Paged } from '#shared/types/common'
 import { vesselTag } from '#shared/utils/vessel-states'
-import { DEFAULT_PROOF_POLICY, earliestProofDate } from '#shared/utils/vessel-arithmetic'
+import { addCalendarDays } from '#shared/utils/dates'
+import type { Transaction } from 'sequelize'
+import { clubVesselRules, policyIntervalMonths } from './policy'
+import { deriveProofStanding, loadProofFacts } from './standing'
+import { VESSEL_CONSTRUCTIONS } from '#shared/utils/vessel-arithmetic'
 
 /** Who is looking at vessels: their club, their membership, and whether they see every member's. */
 export interface VesselViewer {
@@ -23,8 +27,8 @@ export interface VesselOwner {
 
 const num = (v: string | number | null): number | null => (v === null ? null : Number(v))
 
-/** A vessel's DTO from its row and its owner's name. */
-function toVesselDto(v: Vessel, ownerName: string): VesselDto {
+/** A vessel's DTO from its row, its owner's name and its proof standing. */
+function toVesselDto(v: Vessel, ownerName: string, proof: VesselProofStandingDto): VesselDto {
   return {
     id: v.id,
     tag: v.tag,
@@ -35,6 +39,9 @@ function toVesselDto(v: Vessel, ownerName: string): VesselDto {
     diameterMm: Number(v.diameterMm),
     owner: { id: v.ownerMembershipId, name: ownerName },
     registeredAt: v.createdAt.toISOString(),
+    effectiveState: proof.effectiveState,
+    ratedFillBar: proof.ratedFillBar,
+    validThroughOn: proof.validThroughOn,
     lengthMm: num(v.lengthMm),
     emptyMassG: num(v.emptyMassG),
     metalInPressurePath: v.metalInPressurePath,
@@ -45,18 +52,25 @@ function toVesselDto(v: Vessel, ownerName: string): VesselDto {
     resin: v.resin,
     lastLayupOn: v.lastLayupOn,
     updatedAt: v.updatedAt.toISOString(),
-    // Until proof tests are recorded a vessel has no rated fill; the cure clock uses the default wait.
-    proof: {
-      effectiveState: v.state,
-      ratedFillBar: null,
-      lastProofOn: null,
-      fillsSinceProof: 0,
-      fillsRemaining: null,
-      validThroughOn: null,
-      lapseReasons: [],
-      earliestProofOn: v.lastLayupOn ? earliestProofDate(v.lastLayupOn, DEFAULT_PROOF_POLICY.cureWaitDays) : null,
-    },
+    proof,
   }
+}
+
+/**
+ * Vessel row `v` as its DTO: the owner's name, and its proof standing derived on the club's today
+ * from its last passed proof, the events after it, the fills since and the club's policy.
+ */
+export async function vesselDto(v: Vessel, transaction?: Transaction): Promise<VesselDto> {
+  const [owner] = await useDb().query<{ name: string }>(
+    'SELECT u.name FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $id',
+    { bind: { id: v.ownerMembershipId }, type: QueryTypes.SELECT, transaction })
+  const rules = await clubVesselRules(v.clubId, transaction)
+  if (!rules) notFound('No such club')
+  const facts = (await loadProofFacts([v.id], transaction)).get(v.id) ?? { lastPass: null, events: [], fillsSinceProof: 0 }
+  const proof = deriveProofStanding({
+    state: v.state, construction: v.construction, lastLayupOn: v.lastLayupOn, proofRequestedAt: v.proofRequestedAt ?? null, ...facts,
+  }, rules.policy, rules.today)
+  return toVesselDto(v, owner?.name ?? '', proof)
 }
 
 /**
@@ -88,7 +102,7 @@ export async function registerVessel(owner: VesselOwner, input: VesselRegistrati
       lastLayupOn: input.fibreClass ? input.lastLayupOn ?? null : null,
       state: 'awaiting_proof',
     }, { transaction })
-    return toVesselDto(vessel, owner.name)
+    return vesselDto(vessel, transaction)
   })
 }
 
@@ -99,12 +113,11 @@ export async function registerVessel(owner: VesselOwner, input: VesselRegistrati
 export async function getVessel(viewer: VesselViewer, id: string): Promise<VesselDto | null> {
   const where = viewer.readAll ? { id, clubId: viewer.clubId } : { id, clubId: viewer.clubId, ownerMembershipId: viewer.membershipId }
   const vessel = await Vessel.findOne({ where })
-  if (!vessel) return null
-  const [owner] = await useDb().query<{ name: string }>(
-    'SELECT u.name FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.id = $id',
-    { bind: { id: vessel.ownerMembershipId }, type: QueryTypes.SELECT })
-  return toVesselDto(vessel, owner?.name ?? '')
+  return vessel ? vesselDto(vessel) : null
 }
+
+/** "Proof lapsing in 30 days": the officers' filter and the owner's notice look this far ahead. */
+export const LAPSING_WITHIN_DAYS = 30
 
 /** ORDER BY for each sort field; the vessel id breaks ties so pages never overlap or skip. */
 const ORDER_SQL: Record<VesselListQuery['sort'], (dir: 'ASC' | 'DESC') => string> = {
@@ -126,6 +139,8 @@ interface VesselListRow {
   owner_membership_id: string
   owner_name: string
   created_at: Date
+  last_layup_on: string | null
+  proof_requested_at: Date | null
 }
 
 /**
@@ -134,6 +149,8 @@ interface VesselListRow {
  * and paged on the server (a COUNT and the page, never the whole table).
  */
 export async function listVessels(viewer: VesselViewer, query: VesselListQuery): Promise<Paged<VesselListItemDto>> {
+  const rules = await clubVesselRules(viewer.clubId)
+  if (!rules) notFound('No such club')
   const bind: Record<string, unknown> = { clubId: viewer.clubId }
   const where = ['v.club_id = $clubId']
   // A member sees their own whatever the owner filter says.
@@ -153,6 +170,18 @@ export async function listVessels(viewer: VesselViewer, query: VesselListQuery):
     where.push('v.construction = $construction')
     bind.construction = query.construction
   }
+  if (query.lapsing) {
+    // In service with the last pass current through no later than 30 days from today (or already
+    // past it). PostgreSQL's date + months clamps month ends as the arithmetic does. The fill-count
+    // lapse joins here when the fill log exists (see fillsSinceProof).
+    where.push(`v.state = 'in_service' AND (SELECT (max(p.tested_on) + make_interval(months => CASE v.construction
+      ${VESSEL_CONSTRUCTIONS.map((c, i) => `WHEN '${c}' THEN $interval${i}::int`).join(' ')} END))::date
+      FROM proof_tests p WHERE p.vessel_id = v.id AND p.result = 'pass') <= $lapsingBy::date`)
+    VESSEL_CONSTRUCTIONS.forEach((c, i) => {
+      bind[`interval${i}`] = policyIntervalMonths(rules.policy, c)
+    })
+    bind.lapsingBy = addCalendarDays(rules.today, LAPSING_WITHIN_DAYS)
+  }
   const q = query.q?.split('\u0000').join('').trim()
   if (q) {
     where.push('(lower(v.tag) LIKE $pattern OR m.name_key LIKE $pattern)')
@@ -170,22 +199,32 @@ export async function listVessels(viewer: VesselViewer, query: VesselListQuery):
     ? []
     : await db.query<VesselListRow>(
         `SELECT v.id, v.tag, v.name, v.construction, v.state, v.volume_l, v.diameter_mm, v.owner_membership_id,
-          u.name AS owner_name, v.created_at
+          u.name AS owner_name, v.created_at, v.last_layup_on::text AS last_layup_on, v.proof_requested_at
         FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
         WHERE ${conditions} ORDER BY ${order} LIMIT $limit OFFSET $offset`,
         { bind: { ...bind, limit: query.pageSize, offset }, type: QueryTypes.SELECT })
+  const facts = await loadProofFacts(rows.map(r => r.id))
   return {
-    items: rows.map(r => ({
-      id: r.id,
-      tag: r.tag,
-      name: r.name,
-      construction: r.construction,
-      state: r.state,
-      volumeL: Number(r.volume_l),
-      diameterMm: Number(r.diameter_mm),
-      owner: { id: r.owner_membership_id, name: r.owner_name },
-      registeredAt: r.created_at.toISOString(),
-    })),
+    items: rows.map((r) => {
+      const proof = deriveProofStanding({
+        state: r.state, construction: r.construction, lastLayupOn: r.last_layup_on, proofRequestedAt: r.proof_requested_at,
+        ...(facts.get(r.id) ?? { lastPass: null, events: [], fillsSinceProof: 0 }),
+      }, rules.policy, rules.today)
+      return {
+        id: r.id,
+        tag: r.tag,
+        name: r.name,
+        construction: r.construction,
+        state: r.state,
+        volumeL: Number(r.volume_l),
+        diameterMm: Number(r.diameter_mm),
+        owner: { id: r.owner_membership_id, name: r.owner_name },
+        registeredAt: r.created_at.toISOString(),
+        effectiveState: proof.effectiveState,
+        ratedFillBar: proof.ratedFillBar,
+        validThroughOn: proof.validThroughOn,
+      }
+    }),
     page: query.page,
     pageSize: query.pageSize,
     total,

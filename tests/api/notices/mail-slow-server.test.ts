@@ -106,6 +106,8 @@ beforeAll(async () => {
   // Only this file's notices go to the slow server: the demo club's reminders are switched off.
   await setMembership('all', { noticeOptOuts: ['dues_reminder'] }, databaseUrl)
   await setNotice({ status: 'queued' }, { status: 'skipped' }, databaseUrl)
+  // Nor is any demo vessel's proof about to lapse (a safety notice nobody can opt out of).
+  await sql(`UPDATE vessels SET state = 'retired' WHERE state = 'in_service'`, [], databaseUrl)
 }, 180_000)
 
 afterAll(async () => {

@@ -98,6 +98,6 @@ describe('AuditQuerySchema', () => {
 
   it('labels known actions and shows unknown ones as their code', () => {
     expect(auditActionLabel('member.suspend')).toBe('Suspended a membership')
-    expect(auditActionLabel('vessel.quarantine')).toBe('vessel.quarantine')
+    expect(auditActionLabel('vessel.scrap')).toBe('vessel.scrap')
   })
 })

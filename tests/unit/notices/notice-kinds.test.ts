@@ -17,6 +17,9 @@ function varsFor(baseUrl: string): NoticeVars {
     actionUrl: `${baseUrl}/action?token=abc`,
     guardianName: 'Guardian of Odile',
     paidThrough: '2026-03-14',
+    vesselTag: 'SRG-0042',
+    vesselName: 'Gull',
+    validThrough: '2026-04-30',
   }
 }
 
