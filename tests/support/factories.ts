@@ -353,3 +353,16 @@ export async function makeRateLimit(o: { key: string, points: number, expiresInM
     [o.key, o.points, Date.now() + (o.expiresInMs ?? 60 * 60 * 1000)], o.db)
   return { key: o.key }
 }
+
+/**
+ * A photo row (no file behind it: fetching its image finds none), for tests that need a photo to point
+ * at, such as a proof test's gauge photo. Build and gauge photos name a vessel; a coupon photo names none.
+ */
+export async function makePhoto(o: { clubId: string, uploadedBy: string, vesselId?: string | null, purpose?: 'build' | 'gauge' | 'coupon', caption?: string, db?: string }): Promise<{ photoId: string }> {
+  const purpose = o.purpose ?? (o.vesselId ? 'build' : 'coupon')
+  const photoId = await insertRow('photos', {
+    clubId: o.clubId, vesselId: o.vesselId ?? null, uploadedByMembershipId: o.uploadedBy, purpose,
+    contentType: 'image/jpeg', byteSize: 1024, width: 640, height: 480, caption: o.caption,
+  }, o.db)
+  return { photoId }
+}
