@@ -109,9 +109,9 @@ export async function addPhoto(viewer: PhotoViewer, fields: PhotoUploadFields, u
   const id = randomUUID()
   const target = { id, contentType }
   const files = [join(dir, photoFileName(target)), join(dir, photoFileName(target, 'thumbnail'))] as const
-  const parts = files.map(f => `${f}.part`)
+  const parts = [`${files[0]}.part`, `${files[1]}.part`] as const
   try {
-    let full: sharp.OutputInfo
+    let full: Awaited<ReturnType<typeof reencode>>
     try {
       full = await reencode(uploadPath, parts[0], contentType)
       await reencode(uploadPath, parts[1], contentType, THUMBNAIL_WIDTH_PX)
@@ -119,7 +119,8 @@ export async function addPhoto(viewer: PhotoViewer, fields: PhotoUploadFields, u
     catch {
       refuse({ code: 'IMAGE_UNREADABLE', message: 'The image could not be read: it may be damaged, cut short or too large in pixels.' })
     }
-    for (const [i, part] of parts.entries()) await rename(part, files[i])
+    await rename(parts[0], files[0])
+    await rename(parts[1], files[1])
     const photo = await inTransaction(transaction => Photo.create({
       id,
       clubId: viewer.clubId,

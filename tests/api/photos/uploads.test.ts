@@ -49,7 +49,8 @@ function form(fields: Record<string, string>, file?: { bytes: Buffer, name: stri
   return f
 }
 
-const upload = (as: string, body: FormData) => api<PhotoDto>('/api/photos', { baseUrl: BASE, as, body })
+type Answer = PhotoDto & { message: string, data?: { fields?: Record<string, string> } }
+const upload = (as: string, body: FormData) => api<Answer>('/api/photos', { baseUrl: BASE, as, body })
 const fetchPhoto = (as: string | undefined, path: string) => fetch(`${BASE}${path}`, { headers: as ? { cookie: as } : {} })
 
 /** Every file in the uploads folder (none are expected elsewhere). */
@@ -307,5 +308,4 @@ describe('an oversize upload', () => {
     for (let i = 0; i < 20 && storedFiles().length !== files.length; i++) await new Promise(r => setTimeout(r, 100))
     expect(storedFiles()).toEqual(files)
   })
-
 })
