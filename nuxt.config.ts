@@ -59,6 +59,8 @@ export default defineNuxtConfig({
     // Password hashes (32 MiB each) running at once, and how many more may wait before a 503.
     passwordHashConcurrency: 2,
     passwordHashMaxWaiting: 64,
+    // Where uploaded photos are kept (NUXT_UPLOADS_DIR), outside the web root; relative to the working directory.
+    uploadsDir: '.local/uploads',
   },
   compatibilityDate: '2025-07-15',
   nitro: {

@@ -1,5 +1,3 @@
-import type { H3Event } from 'h3'
-
 /**
  * Runs before every handler: refuses state-changing requests from other sites (403) and with a body
  * that is not of the route's media types (415), then reads any body itself, counting bytes as they
@@ -41,25 +39,3 @@ export default defineEventHandler(async (event) => {
     throw error
   }
 })
-
-/** How long a refused connection lingers, half-closed, before it is reset. */
-const LINGER_MS = 2000
-
-/**
- * 413 and close the connection after it: the rest of the body is never read. The socket is half-closed
- * once the answer is out and destroyed a while later (the body stays paused, unread, meanwhile), so a
- * client busy writing — or a loaded machine — still reads the 413 before the reset.
- */
-function refuseTooLarge(event: H3Event, maxBytes: number): never {
-  const socket = event.node.req.socket
-  setResponseHeader(event, 'connection', 'close')
-  // Node's server would destroy the socket as soon as the answer is written ("Connection: close"),
-  // resetting it while the client is still sending, and a reset can swallow the 413 on its way: only
-  // half-close it then, and reset it after the linger.
-  socket.destroySoon = () => socket.end()
-  event.node.res.once('finish', () => {
-    socket.end()
-    setTimeout(() => socket.destroy(), LINGER_MS).unref()
-  })
-  throw createError({ statusCode: 413, statusMessage: 'Payload Too Large', message: new TooLargeError(maxBytes).message })
-}

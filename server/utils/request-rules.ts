@@ -37,6 +37,8 @@ export const REQUEST_RULES: Record<string, Partial<RequestRule>> = {
   // RFC 8058 one-click opt-out: a mail program POSTs "List-Unsubscribe=One-Click" form-encoded, from
   // its own site or none; the signed token in the query is the whole authority.
   'POST /api/notices/opt-out': { mediaTypes: ['application/json', 'application/x-www-form-urlencoded'], crossSite: true },
+  // A photo (10 MB at most, checked again by busboy while it streams) with its few short fields.
+  'POST /api/photos': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
 }
 
 function matches(pattern: string, path: string): boolean {

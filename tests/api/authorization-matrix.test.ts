@@ -4,6 +4,7 @@ import { makeMember } from '../support/factories'
 import { discoverRoutes, concretePath, routeParams } from '../support/routes'
 import { signIn } from '../support/global-setup'
 import { DEMO } from '../support/test-env'
+import { requestRuleFor } from '../../server/utils/request-rules'
 
 /**
  * Every route file under server/api × {anonymous, member, instructor, safety officer, admin} → the
@@ -79,6 +80,11 @@ const MATRIX: Record<string, Row> = {
   'POST /api/vessels/[id]/retire': signedIn(400), // the owner or the safety officer
   'GET /api/vessel-policy': signedIn(200),
   'PUT /api/vessel-policy': only(400, 'safety'),
+  'GET /api/vessels/[id]/photos': signedIn(404), // [id] is a membership id here: no such vessel
+  'POST /api/photos': signedIn(400), // an empty multipart form: no purpose, no file
+  'GET /api/photos/[id]': signedIn(404), // [id] is a membership id here: no such photo
+  'GET /api/photos/[id]/thumbnail': signedIn(404),
+  'DELETE /api/photos/[id]': signedIn(404),
 }
 
 let subjectId = ''
@@ -130,7 +136,9 @@ describe('authorization matrix', () => {
     const path = concretePath(pattern, paramValues(pattern))
     // Signing out ends the session it is sent with, so it gets a session of its own, never the shared one.
     const as = who === 'anon' ? undefined : route === 'POST /api/auth/logout' ? await signIn(inject('baseUrl'), DEMO[who], DEMO.password) : who
-    const res = await api(path, { method, as, body: method === 'GET' ? undefined : {} })
+    // An upload route takes multipart forms only (its request rule); it gets an empty one.
+    const body = method === 'GET' ? undefined : requestRuleFor(method, path).mediaTypes.includes('multipart/form-data') ? new FormData() : {}
+    const res = await api(path, { method, as, body })
     expect(res.status, `${route} as ${who}: ${JSON.stringify(res.body)?.slice(0, 200)}`).toBe(row[who])
   })
 })

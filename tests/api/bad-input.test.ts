@@ -7,6 +7,7 @@ import { signIn } from '../support/global-setup'
 import { discoverRoutes, concretePath, routeParams } from '../support/routes'
 import { badValuesFor, bodySchemaRef, fieldsOf, kindOf, loadBodySchema, readsBody } from '../support/body-schemas'
 import { testEnv } from '../support/test-env'
+import { requestRuleFor } from '../../server/utils/request-rules'
 
 /**
  * Every write route × whole-body faults (malformed JSON, not an object, over 64 KB, nested 5000 deep,
@@ -22,6 +23,7 @@ const NO_BODY: Record<string, string> = {
   'POST /api/outbox/[id]/retry': 'queues the notice in the path again; takes no body',
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
   'POST /api/vessels/[id]/proof-requests': 'asks for a proof test of the vessel in the path; takes no body',
+  'DELETE /api/photos/[id]': 'removes the photo in the path; takes no body',
 }
 
 const WHOLE_BODY: [string, string | object][] = [
@@ -55,7 +57,16 @@ async function footprint(): Promise<string> {
   return JSON.stringify(parts)
 }
 
-const writes = discoverRoutes().filter(r => !r.startsWith('GET ') && !NO_BODY[r])
+/** Whether a route takes multipart forms (an upload; its request rule says so) rather than JSON. */
+const takesMultipart = (route: string) => {
+  const [method, pattern] = route.split(' ') as [string, string]
+  return requestRuleFor(method, pattern).mediaTypes.includes('multipart/form-data')
+}
+
+// Upload routes read no JSON: the test below checks they refuse it, and their own tests (tests/api/photos/)
+// check their fields and files.
+const uploads = discoverRoutes().filter(takesMultipart)
+const writes = discoverRoutes().filter(r => !r.startsWith('GET ') && !NO_BODY[r] && !takesMultipart(r))
 
 /** Each write route with the schema its handler validates the body with (null when none is found). */
 async function routeCases(): Promise<(RouteCase | { route: string, schema: null })[]> {
@@ -111,6 +122,16 @@ describe('bad input on every write route', () => {
         }
       }
     }
+  })
+
+  it.each(uploads)('%s (an upload) refuses JSON bodies with 415 and writes nothing', async (route) => {
+    const before = await footprint()
+    for (const [label, body] of WHOLE_BODY) {
+      const [method, pattern] = route.split(' ') as [string, string]
+      const res = await api(concretePath(pattern, Object.fromEntries(routeParams(pattern).map(p => [p, subject.memberId]))), { method, as: cookie, body })
+      expect(res.status, `${route} with ${label}`).toBe(415)
+    }
+    expect(await footprint()).toBe(before)
   })
 
   it.each(writes)('%s refuses bad input with a 4xx and writes nothing', async (route) => {

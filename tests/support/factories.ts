@@ -400,12 +400,16 @@ export async function makeProofTest(o: { vesselId: string, witnessId: string, te
   return { proofTestId }
 }
 
-/** A photo row (no file) of `purpose` for vessel `vesselId`, uploaded by `uploaderId`. */
-export async function makePhotoRecord(o: { vesselId: string, uploaderId: string, purpose?: 'build' | 'gauge', db?: string }): Promise<{ photoId: string }> {
-  const [v] = await sql<{ club_id: string }>('SELECT club_id FROM vessels WHERE id = $1', [o.vesselId], o.db)
+/**
+ * A photo row (no file behind it: fetching its image finds none), for tests that need a photo to point
+ * at, such as a proof test's gauge photo. Build and gauge photos name a vessel; a coupon photo names none. The club is the vessel's unless given, else the demo club.
+ */
+export async function makePhoto(o: { clubId?: string, uploadedBy: string, vesselId?: string | null, purpose?: 'build' | 'gauge' | 'coupon', caption?: string, db?: string }): Promise<{ photoId: string }> {
+  const purpose = o.purpose ?? (o.vesselId ? 'build' : 'coupon')
+  const [vessel] = o.vesselId ? await sql<{ club_id: string }>('SELECT club_id FROM vessels WHERE id = $1', [o.vesselId], o.db) : []
   const photoId = await insertRow('photos', {
-    clubId: v!.club_id, vesselId: o.vesselId, uploadedByMembershipId: o.uploaderId, purpose: o.purpose ?? 'gauge',
-    contentType: 'image/jpeg', byteSize: 1000, width: 10, height: 10,
+    clubId: o.clubId ?? vessel?.club_id ?? await demoClubId(o.db), vesselId: o.vesselId ?? null, uploadedByMembershipId: o.uploadedBy, purpose,
+    contentType: 'image/jpeg', byteSize: 1024, width: 640, height: 480, caption: o.caption,
   }, o.db)
   return { photoId }
 }

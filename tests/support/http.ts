@@ -10,7 +10,7 @@ export interface ApiResponse<T = any> {
 
 export interface ApiOptions {
   method?: string
-  /** A JS value sent as JSON, or a string sent as it is (for malformed-JSON tests). */
+  /** A JS value sent as JSON, a string sent as it is (for malformed-JSON tests), or a FormData sent as multipart. */
   body?: unknown
   /** A demo role (its shared cookie), a raw cookie string, or nothing for an anonymous call. */
   as?: DemoRole | string
@@ -30,8 +30,10 @@ export async function api<T = any>(path: string, opts: ApiOptions = {}): Promise
     const cookies = inject('cookies') as Record<string, string>
     headers.cookie = cookies[opts.as] ?? opts.as
   }
-  let body: string | undefined
-  if (opts.body !== undefined) {
+  let body: string | FormData | undefined
+  // A multipart form (an upload) goes as it is; fetch writes its Content-Type with the boundary.
+  if (opts.body instanceof FormData) body = opts.body
+  else if (opts.body !== undefined) {
     headers['content-type'] ??= 'application/json'
     body = typeof opts.body === 'string' ? opts.body : JSON.stringify(opts.body)
   }

@@ -1,5 +1,6 @@
 // The services scripts/test.mjs starts for the API and browser suites, read from its environment.
-import { TEST } from '../../scripts/lib/config.mjs'
+import { join } from 'node:path'
+import { LOCAL, TEST } from '../../scripts/lib/config.mjs'
 import { APP_ROLE } from '../../scripts/lib/postgres.mjs'
 
 export const testEnv = {
@@ -13,6 +14,8 @@ export const testEnv = {
   appPort: TEST.appPort,
   baseUrl: `http://127.0.0.1:${TEST.appPort}`,
   sessionPassword: 'test-session-password-that-is-at-least-32-chars',
+  /** The test server's uploads folder (photos), inside the tests' own .local folder. */
+  uploadsDir: join(LOCAL, 'test', 'uploads'),
 }
 
 /** The environment every test server gets; isolated servers override ports and services. */
@@ -27,6 +30,7 @@ export function serverEnv(overrides: Record<string, string> = {}): Record<string
     // Every test file signs up and asks for resets from 127.0.0.1; the limits have tests of their own.
     NUXT_SIGNUP_MAX_PER_ADDRESS: '1000',
     NUXT_RESET_REQUEST_MAX_PER_ADDRESS: '1000',
+    NUXT_UPLOADS_DIR: testEnv.uploadsDir,
     ...overrides,
   }
 }

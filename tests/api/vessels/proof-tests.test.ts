@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from 'vitest'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay, makePhotoRecord, makeProofTest, makeVessel } from '../../support/factories'
+import { clubDay, makePhoto, makeProofTest, makeVessel } from '../../support/factories'
 import type { ProofRequestDto, ProofTestDto, VesselHistoryDto } from '../../../shared/types/proof-tests'
 import type { VesselDto } from '../../../shared/types/vessels'
 import { act, codes, proofClub, type ProofClub } from './proof-support'
@@ -100,9 +100,9 @@ describe('the cure wait, the medium and the gauge photo', () => {
   it('takes a gauge photo of this vessel, and refuses another vessel\'s or a build photo', async () => {
     const { vesselId } = await makeVessel({ ownerId: c.owner.memberId })
     const { vesselId: elsewhere } = await makeVessel({ ownerId: c.owner.memberId })
-    const { photoId: foreign } = await makePhotoRecord({ vesselId: elsewhere, uploaderId: c.instructor.memberId })
-    const { photoId: build } = await makePhotoRecord({ vesselId, uploaderId: c.owner.memberId, purpose: 'build' })
-    const { photoId: gauge } = await makePhotoRecord({ vesselId, uploaderId: c.instructor.memberId })
+    const { photoId: foreign } = await makePhoto({ vesselId: elsewhere, uploadedBy: c.instructor.memberId, purpose: 'gauge' })
+    const { photoId: build } = await makePhoto({ vesselId, uploadedBy: c.owner.memberId, purpose: 'build' })
+    const { photoId: gauge } = await makePhoto({ vesselId, uploadedBy: c.instructor.memberId, purpose: 'gauge' })
     for (const photo of [foreign, build]) {
       const res = await act(c.instructor, vesselId, 'proof-tests', water(16, 'pass', { gaugePhotoId: photo }))
       expect(res.status).toBe(422)
