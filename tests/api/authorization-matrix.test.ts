@@ -69,6 +69,10 @@ const MATRIX: Record<string, Row> = {
   'POST /api/vessels': signedIn(400), // every member registers their own
   'GET /api/vessels': signedIn(200), // a member's own; the whole club's with vessels.read_all
   'GET /api/vessels/[id]': signedIn(404), // [id] is a membership id here: no such vessel
+  'POST /api/coupon-tests': signedIn(400), // any member records a coupon test they did or witnessed
+  'GET /api/coupon-tests': signedIn(200), // coupons are club knowledge: every member
+  'GET /api/layup-families': signedIn(200),
+  'GET /api/vessels/[id]/burst-estimate': signedIn(404), // [id] is a membership id here: no such vessel
 }
 
 let subjectId = ''

@@ -10,6 +10,7 @@ import * as m0011 from './0011-directory-sort-keys'
 import * as m0012 from './0012-member-audit-prefix'
 import * as m0013 from './0013-vessels'
 import * as m0014 from './0014-photos'
+import * as m0016 from './0016-coupon-tests'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -23,4 +24,5 @@ export const migrations = [
   { name: '0012-member-audit-prefix', ...m0012 },
   { name: '0013-vessels', ...m0013 },
   { name: '0014-photos', ...m0014 },
+  { name: '0016-coupon-tests', ...m0016 },
 ]
