@@ -241,3 +241,20 @@ describe('layup families, their calibration factor, and a vessel\'s burst estima
     expect(keys).not.toContain(bruno.memberId)
   })
 })
+
+describe('the demo club\'s coupons (seed)', () => {
+  it('holds a dozen coupon tests over three layup families, and Petrel\'s estimate is calibrated by its family', async () => {
+    const res = await api<LayupFamiliesDto>('/api/layup-families', { as: 'member' })
+    const seeded = ['carbon:200:woven_0_90:laminating epoxy', 'carbon:300:hoop_tow:laminating epoxy', 'e_glass:300:woven_0_90:laminating epoxy']
+    const families = res.body.families.filter(f => seeded.includes(f.key))
+    expect(families.map(f => f.key)).toEqual(seeded)
+    expect(families.reduce((n, f) => n + f.factor.count, 0)).toBeGreaterThanOrEqual(12)
+    const [petrel] = await sql<{ id: string }>(`SELECT v.id FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id
+      JOIN users u ON u.id = m.user_id WHERE u.email = 'member@hoopwise.example' AND v.name = 'Petrel'`)
+    const estimate = await api<BurstEstimateDto>(`/api/vessels/${petrel!.id}/burst-estimate`, { as: 'member' })
+    if (estimate.body.estimate === null) return expect.fail(estimate.body.reason)
+    const glass = families.find(f => f.key === 'e_glass:300:woven_0_90:laminating epoxy')!
+    expect(estimate.body.couponCount).toBe(glass.factor.count)
+    expect(estimate.body.calibratedBar).toBeCloseTo(estimate.body.rawBar * glass.factor.median, 9)
+  })
+})
