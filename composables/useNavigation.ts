@@ -8,6 +8,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/standing', label: 'My standing', testId: 'nav-standing' },
   { to: '/waiver', label: 'Waiver', testId: 'nav-waiver' },
   { to: '/calculator', label: 'Calculator', testId: 'nav-calculator' },
+  { to: '/coupons', label: 'Coupon bursts', testId: 'nav-coupons' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
   { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
   { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },

@@ -11,8 +11,10 @@ import { AuditEvent } from './AuditEvent'
 import { Session } from './Session'
 import { Vessel } from './Vessel'
 import { Photo } from './Photo'
+import { CouponTest } from './CouponTest'
 
 export { Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel, Photo }
+export { CouponTest }
 
 /**
  * Creates a Sequelize instance for `databaseUrl` with every model initialised and associated.
@@ -30,6 +32,7 @@ export function createSequelize(databaseUrl: string): Sequelize {
   for (const model of [Club, User, Membership, Waiver, WaiverAcceptance, ActionToken, Notice, AuditEvent, Session, Vessel, Photo]) {
     model.initModel(sequelize)
   }
+  CouponTest.initModel(sequelize)
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Membership.belongsTo(Club, { foreignKey: 'clubId', as: 'club' })
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })

@@ -613,3 +613,101 @@ export function resinToMix(input: ResinToMixInput): ResinToMix {
   const hardenerMl = mlPerPart * mixRatio.hardenerParts
   return { clothMassG, mixedMassG, basis: 'volume', resinG: resinMl * mixRatio.resinDensityGPerMl, hardenerG: hardenerMl * mixRatio.hardenerDensityGPerMl, resinMl, hardenerMl }
 }
+
+// ─── Coupon bursts: calibrating the estimate ────────────────────────────────────────────────────
+// Builders burst short tubes (coupons) laid up like a vessel to learn what their laminate holds. The
+// ratio of each coupon's measured burst to its estimate, over a layup family, calibrates the estimate
+// for vessels of that family. The calibrated figure informs; only a witnessed proof test rates a vessel.
+
+/** The fibre volume fraction assumed for a hand layup when none is measured, 0.35 (common practice for wet hand layup). */
+export const DEFAULT_HAND_LAYUP_FIBRE_VOLUME_FRACTION = 0.35
+
+/** A layup: what a vessel's laminate and a coupon share. `fibreClass` may name a hybrid, which the estimate refuses. */
+export interface Layup {
+  fibreClass: string
+  arealWeightGPerM2: number
+  weave: Weave
+  plies: number
+}
+
+/**
+ * The estimated burst of a layup from the fibre class's generic properties (FIBRE_PROPERTIES): the
+ * laminate burst estimate with that class's strength and density, on `layupDiameterMm`, at
+ * `fibreVolumeFraction` (0.35 when not measured) and the club's `processFactor`. A hybrid of several
+ * fibres has no single strength, so it is refused.
+ */
+export function layupBurstEstimate(layup: Layup & { layupDiameterMm: number, fibreVolumeFraction?: number, processFactor?: number }): LaminateBurstEstimate {
+  if (!(FIBRE_CLASSES as readonly string[]).includes(layup.fibreClass)) {
+    throw new VesselArithmeticError('fibreClass', layup.fibreClass === 'hybrid'
+      ? 'A hybrid of several fibres has no single fibre strength to estimate from.'
+      : `Unknown fibre class ${String(layup.fibreClass)}.`)
+  }
+  const fibre = FIBRE_PROPERTIES[layup.fibreClass as FibreClass]
+  return laminateBurstEstimate({
+    plies: layup.plies,
+    arealWeightGPerM2: layup.arealWeightGPerM2,
+    fibreDensityGPerCm3: fibre.densityGPerCm3,
+    fibreStrengthMPa: fibre.strengthMPa,
+    fibreVolumeFraction: layup.fibreVolumeFraction ?? DEFAULT_HAND_LAYUP_FIBRE_VOLUME_FRACTION,
+    weave: layup.weave,
+    processFactor: layup.processFactor,
+    layupDiameterMm: layup.layupDiameterMm,
+  })
+}
+
+/** A calibration factor: the median of measured ÷ estimated burst over a family's coupons, with how many and their spread. */
+export interface CalibrationFactor {
+  median: number
+  count: number
+  min: number
+  max: number
+}
+
+/**
+ * The calibration factor of a family from its coupons' ratios of measured ÷ estimated burst: the
+ * median (of an even count, the mean of the middle two), the count, the smallest and the largest.
+ * The median, not the mean, so one odd coupon (a bad end fitting, a dry spot) moves it little.
+ * Refuses no ratios, and any ratio that is not a finite number above 0.
+ */
+export function calibrationFactor(ratios: readonly number[]): CalibrationFactor {
+  if (!Array.isArray(ratios) || ratios.length === 0) throw new VesselArithmeticError('ratios', 'A calibration factor needs at least one coupon.')
+  ratios.forEach((r, i) => positive(r, `ratios.${i}`, `The ratio of coupon ${i + 1}`))
+  const sorted = [...ratios].sort((a, b) => a - b)
+  const mid = Math.floor(sorted.length / 2)
+  const median = sorted.length % 2 === 1 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2
+  return { median, count: sorted.length, min: sorted[0]!, max: sorted[sorted.length - 1]! }
+}
+
+/** A layup family: fibre class, fabric areal weight, weave and resin (named case-insensitively, trimmed). */
+export interface LayupFamily {
+  fibreClass: string
+  arealWeightGPerM2: number
+  weave: Weave
+  /** The resin as compared: trimmed and lower-cased. */
+  resinKey: string
+}
+
+/** The resin as families compare it: trimmed, inner runs of spaces made one, lower-cased. */
+export function resinKey(resin: string): string {
+  if (typeof resin !== 'string' || resin.trim() === '') throw new VesselArithmeticError('resin', 'Name the resin: a family is told apart by it.')
+  return resin.trim().replace(/\s+/g, ' ').toLowerCase()
+}
+
+/**
+ * The key of a layup's family, `fibre:areal weight:weave:resin` (e.g. `e_glass:300:woven_0_90:laminating
+ * epoxy`): coupons and vessels with the same key belong together. The plies and the diameter do not
+ * count: the estimate already scales with them, and the factor corrects what it leaves out.
+ */
+export function layupFamilyKey(layup: { fibreClass: string, arealWeightGPerM2: number, weave: Weave, resin: string }): string {
+  positive(layup.arealWeightGPerM2, 'arealWeightGPerM2', 'The fabric areal weight (g/m²)')
+  return `${layup.fibreClass}:${layup.arealWeightGPerM2}:${layup.weave}:${resinKey(layup.resin)}`
+}
+
+/** A family key back into its parts, or null when it is not one (the resin may itself contain a colon). */
+export function parseLayupFamilyKey(key: string): LayupFamily | null {
+  const [fibreClass, weight, weave, ...rest] = String(key).split(':')
+  const arealWeightGPerM2 = Number(weight)
+  const resin = rest.join(':')
+  if (!fibreClass || !weave || !(weave in WEAVE_FACTORS) || !Number.isFinite(arealWeightGPerM2) || arealWeightGPerM2 <= 0 || resin.trim() === '') return null
+  return { fibreClass, arealWeightGPerM2, weave: weave as Weave, resinKey: resinKey(resin) }
+}

@@ -85,6 +85,10 @@ const MATRIX: Record<string, Row> = {
   'GET /api/photos/[id]': signedIn(404), // [id] is a membership id here: no such photo
   'GET /api/photos/[id]/thumbnail': signedIn(404),
   'DELETE /api/photos/[id]': signedIn(404),
+  'POST /api/coupon-tests': signedIn(400), // any member records a coupon test they did or witnessed
+  'GET /api/coupon-tests': signedIn(200), // coupons are club knowledge: every member
+  'GET /api/layup-families': signedIn(200),
+  'GET /api/vessels/[id]/burst-estimate': signedIn(404), // [id] is a membership id here: no such vessel
 }
 
 let subjectId = ''

@@ -11,6 +11,7 @@ import * as m0012 from './0012-member-audit-prefix'
 import * as m0013 from './0013-vessels'
 import * as m0014 from './0014-photos'
 import * as m0015 from './0015-proof-tests'
+import * as m0016 from './0016-coupon-tests'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -25,4 +26,5 @@ export const migrations = [
   { name: '0013-vessels', ...m0013 },
   { name: '0014-photos', ...m0014 },
   { name: '0015-proof-tests', ...m0015 },
+  { name: '0016-coupon-tests', ...m0016 },
 ]

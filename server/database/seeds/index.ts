@@ -6,6 +6,7 @@ import { seedClub } from './club'
 import { seedMembers } from './members'
 import { seedWaiver } from './waiver'
 import { seedVessels } from './vessels'
+import { seedCouponTests } from './coupons'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -16,6 +17,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedMembers,
   seedWaiver,
   seedVessels,
+  seedCouponTests,
 ]
 
 /** Seeds the demo club in one transaction. */
