@@ -49,3 +49,19 @@ export interface VesselProofStandingDto {
   /** The cure clock: first day a proof may be recorded after the last layup, or null without a layup. */
   earliestProofOn: string | null
 }
+
+/**
+ * A vessel's printable label: what is written on it and the QR code (an SVG document) that opens the
+ * vessel's page, `pageUrl`, on the club's public address.
+ */
+export interface VesselLabelDto {
+  id: string
+  tag: string
+  name: string
+  construction: VesselConstruction
+  ownerName: string
+  /** Rated fill (bar gauge) of the proof in force, or null. */
+  ratedFillBar: number | null
+  pageUrl: string
+  qrSvg: string
+}

@@ -69,6 +69,8 @@ const MATRIX: Record<string, Row> = {
   'POST /api/vessels': signedIn(400), // every member registers their own
   'GET /api/vessels': signedIn(200), // a member's own; the whole club's with vessels.read_all
   'GET /api/vessels/[id]': signedIn(404), // [id] is a membership id here: no such vessel
+  'GET /api/vessels/by-tag/[tag]': signedIn(404), // a tag no club has given
+  'GET /api/vessels/[id]/label': signedIn(404), // [id] is a membership id here: no such vessel
 }
 
 let subjectId = ''
@@ -80,6 +82,7 @@ let subjectId = ''
  */
 const PARAM_VALUES: Record<string, () => string> = {
   id: () => subjectId,
+  tag: () => 'ZZZZZ-9999',
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]
