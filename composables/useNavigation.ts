@@ -7,6 +7,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/', label: 'Dashboard', testId: 'nav-dashboard' },
   { to: '/standing', label: 'My standing', testId: 'nav-standing' },
   { to: '/waiver', label: 'Waiver', testId: 'nav-waiver' },
+  { to: '/vessels', label: 'Vessels', testId: 'nav-vessels' },
   { to: '/calculator', label: 'Calculator', testId: 'nav-calculator' },
   { to: '/coupons', label: 'Coupon bursts', testId: 'nav-coupons' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },

@@ -57,5 +57,14 @@ export const VesselListQuerySchema = PageQuerySchema.extend({
   lapsing: z.enum(['1', 'true'], { errorMap: () => ({ message: 'Use lapsing=1' }) }).transform(() => true).optional(),
   sort: z.enum(VESSEL_SORT_FIELDS).default('tag'),
   dir: z.enum(['asc', 'desc']).default('asc'),
+  // "Proof lapsing in 30 days" (lapsing=1): the officers' table offers it; the proof-test work
+  // narrows the list with it (the proof standing is derived there). Absent means no such filter.
+  lapsing: z.enum(['1'], { errorMap: () => ({ message: 'Use lapsing=1 or leave it out' }) }).optional(),
 })
 export type VesselListQuery = z.infer<typeof VesselListQuerySchema>
+
+/** A vessel's tag as pages address it (`/vessels/SRG-0042`); typed in lower case, it still finds the vessel. */
+export const VesselTagParamSchema = z.object({
+  tag: z.string().trim().toUpperCase().regex(/^[A-Z]{2,5}-\d{4,}$/, 'Not a vessel tag'),
+})
+export type VesselTagParam = z.infer<typeof VesselTagParamSchema>

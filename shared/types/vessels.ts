@@ -58,3 +58,19 @@ export interface VesselProofStandingDto {
   /** When the owner asked for a proof test that is not yet recorded, or null. */
   proofRequestedAt: string | null
 }
+
+/**
+ * A vessel's printable label: what is written on it and the QR code (an SVG document) that opens the
+ * vessel's page, `pageUrl`, on the club's public address.
+ */
+export interface VesselLabelDto {
+  id: string
+  tag: string
+  name: string
+  construction: VesselConstruction
+  ownerName: string
+  /** Rated fill (bar gauge) of the proof in force, or null. */
+  ratedFillBar: number | null
+  pageUrl: string
+  qrSvg: string
+}

@@ -89,6 +89,8 @@ const MATRIX: Record<string, Row> = {
   'GET /api/coupon-tests': signedIn(200), // coupons are club knowledge: every member
   'GET /api/layup-families': signedIn(200),
   'GET /api/vessels/[id]/burst-estimate': signedIn(404), // [id] is a membership id here: no such vessel
+  'GET /api/vessels/by-tag/[tag]': signedIn(404), // a tag no club has given
+  'GET /api/vessels/[id]/label': signedIn(404), // [id] is a membership id here: no such vessel
 }
 
 let subjectId = ''
@@ -100,6 +102,7 @@ let subjectId = ''
  */
 const PARAM_VALUES: Record<string, () => string> = {
   id: () => subjectId,
+  tag: () => 'ZZZZZ-9999',
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]

@@ -45,9 +45,12 @@ describe('a member\'s own screens', () => {
       await page.waitForURL(url => url.pathname === '/standing')
       expect(await page.getByTestId('waiver-line').textContent()).toMatch(/Accepted/)
       expect(await page.getByTestId('status-chip').textContent()).toBe('Active')
-      for (const section of ['training', 'tier', 'vessels']) {
+      for (const section of ['training', 'tier']) {
         expect(await page.getByTestId(`standing-${section}`).getByTestId('section-empty').textContent()).toMatch(/will appear here/)
       }
+      // The vessels have their own page; the standing points there.
+      await page.getByTestId('standing-to-vessels').click()
+      await page.waitForURL(url => url.pathname === '/vessels')
     }
     finally {
       await page.close()

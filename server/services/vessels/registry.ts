@@ -230,3 +230,13 @@ export async function listVessels(viewer: VesselViewer, query: VesselListQuery):
     total,
   }
 }
+
+/**
+ * Vessel `tag` (the club's own, e.g. SRG-0042) as `viewer` may see it, or null: the same rule as
+ * `getVessel` (another member's vessel is null without vessels.read_all), found by the club's key.
+ */
+export async function getVesselByTag(viewer: VesselViewer, tag: string): Promise<VesselDto | null> {
+  const where = viewer.readAll ? { tag, clubId: viewer.clubId } : { tag, clubId: viewer.clubId, ownerMembershipId: viewer.membershipId }
+  const found = await Vessel.findOne({ where, attributes: ['id'] })
+  return found ? getVessel(viewer, found.id) : null
+}
