@@ -53,13 +53,11 @@ export const VesselListQuerySchema = PageQuerySchema.extend({
   state: z.enum(VESSEL_STATES).optional(),
   construction: z.enum(VESSEL_CONSTRUCTIONS).optional(),
   owner: z.string().uuid('Not a valid id').transform(id => id.toLowerCase()).optional(),
-  // "Proof lapsing in 30 days": in service with a proof current through the next 30 days, or already due.
-  lapsing: z.enum(['1', 'true'], { errorMap: () => ({ message: 'Use lapsing=1' }) }).transform(() => true).optional(),
+  // "Proof lapsing in 30 days" (lapsing=1, absent otherwise): in service with a proof current through
+  // the next 30 days, or already due. Kept as the URL's '1' so list views round-trip through the address.
+  lapsing: z.enum(['1'], { errorMap: () => ({ message: 'Use lapsing=1 or leave it out' }) }).optional(),
   sort: z.enum(VESSEL_SORT_FIELDS).default('tag'),
   dir: z.enum(['asc', 'desc']).default('asc'),
-  // "Proof lapsing in 30 days" (lapsing=1): the officers' table offers it; the proof-test work
-  // narrows the list with it (the proof standing is derived there). Absent means no such filter.
-  lapsing: z.enum(['1'], { errorMap: () => ({ message: 'Use lapsing=1 or leave it out' }) }).optional(),
 })
 export type VesselListQuery = z.infer<typeof VesselListQuerySchema>
 

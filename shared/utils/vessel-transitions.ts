@@ -22,11 +22,6 @@ import type { Words } from './words'
 /** A vessel's state as pages and rules see it: the stored state, or `retest_due` derived from it. */
 export type EffectiveVesselState = VesselState | 'retest_due'
 
-export const EFFECTIVE_STATE_WORDS: Record<EffectiveVesselState, Words> = {
-  ...VESSEL_STATE_WORDS,
-  retest_due: { label: 'Retest due', meaning: 'In service, but its proof has lapsed by time, fill count or an event: a new proof test before any fill.' },
-}
-
 export const PROOF_RESULTS = ['pass', 'leak', 'permanent_deformation', 'burst'] as const
 export type ProofResult = typeof PROOF_RESULTS[number]
 

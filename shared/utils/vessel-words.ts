@@ -4,7 +4,8 @@
  */
 import type { Words } from './words'
 import type { VesselConstruction, Weave } from './vessel-arithmetic'
-import { VESSEL_STATE_WORDS, type VesselFibreClass, type VesselState } from './vessel-states'
+import { VESSEL_STATE_WORDS, type VesselFibreClass } from './vessel-states'
+import type { EffectiveVesselState } from './vessel-transitions'
 
 export const VESSEL_CONSTRUCTION_WORDS: Record<VesselConstruction, Words> = {
   single_bottle: { label: 'Single bottle', meaning: 'One carbonated-drink bottle, as bought.' },
@@ -27,10 +28,8 @@ export const WEAVE_LABELS: Record<Weave, string> = {
   hoop_tow: 'Hoop-wound tow',
 }
 
-/** A vessel's state as read: a stored state, or "retest due" (in service with its proof lapsed). */
-export type VesselEffectiveState = VesselState | 'retest_due'
-
-export const VESSEL_EFFECTIVE_STATE_WORDS: Record<VesselEffectiveState, Words> = {
+/** A vessel's state as read (see vessel-transitions.ts): a stored state, or "retest due" (in service with its proof lapsed). */
+export const VESSEL_EFFECTIVE_STATE_WORDS: Record<EffectiveVesselState, Words> = {
   ...VESSEL_STATE_WORDS,
   retest_due: { label: 'Retest due', meaning: 'Its proof has lapsed by time, fill count or an event: no fills until it passes a new proof test.' },
 }

@@ -387,7 +387,7 @@ export async function makeVessel(o: VesselOverrides): Promise<{ vesselId: string
 }
 
 /** A recorded proof test (a pass at 15 bar with margin 1.5 unless given); the vessel's state is not changed. */
-export async function makeProofTest(o: { vesselId: string, witnessId: string, testedOn: string, pressureBar?: number, result?: 'pass' | 'leak' | 'permanent_deformation' | 'burst', marginRatio?: number, db?: string }): Promise<{ proofTestId: string }> {
+export async function makeProofTest(o: { vesselId: string, witnessId: string, testedOn: string, pressureBar?: number, result?: 'pass' | 'leak' | 'permanent_deformation' | 'burst', marginRatio?: number, gaugePhotoId?: string, db?: string }): Promise<{ proofTestId: string }> {
   const [v] = await sql<{ club_id: string }>('SELECT club_id FROM vessels WHERE id = $1', [o.vesselId], o.db)
   const result = o.result ?? 'pass'
   const pressureBar = o.pressureBar ?? 15
@@ -395,7 +395,7 @@ export async function makeProofTest(o: { vesselId: string, witnessId: string, te
   const proofTestId = await insertRow('proof_tests', {
     clubId: v!.club_id, vesselId: o.vesselId, witnessMembershipId: o.witnessId, testedOn: o.testedOn, pressureBar, result,
     failureLocation: result === 'pass' ? null : 'wall', marginRatio: result === 'pass' ? margin : null,
-    ratedFillBar: result === 'pass' ? Math.floor((pressureBar / margin) * 100) / 100 : null,
+    ratedFillBar: result === 'pass' ? Math.floor((pressureBar / margin) * 100) / 100 : null, gaugePhotoId: o.gaugePhotoId ?? null,
   }, o.db)
   return { proofTestId }
 }

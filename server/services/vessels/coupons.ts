@@ -6,21 +6,22 @@ import type { Paged } from '#shared/types/common'
 import type { CouponFailureMode } from '#shared/utils/coupon-failure-modes'
 import { PA_PER_BAR, pressureToPa } from '#shared/utils/units'
 import {
-  BURST_ESTIMATE_NOTE, DEFAULT_HAND_LAYUP_FIBRE_VOLUME_FRACTION, DEFAULT_HAND_LAYUP_PROCESS_FACTOR,
+  BURST_ESTIMATE_NOTE, DEFAULT_HAND_LAYUP_FIBRE_VOLUME_FRACTION,
   calibrationFactor, layupBurstEstimate, layupFamilyKey, resinKey, type FibreClass, type LayupFamily, type Weave,
 } from '#shared/utils/vessel-arithmetic'
 import { getVessel, type VesselViewer } from './registry'
+import { vesselPolicy } from './policy'
 
 /** The highest burst pressure a coupon row holds, bar (the table's check). */
 const MAX_COUPON_BURST_BAR = 2000
 
 /**
  * The club's hand-layup process factor k_process, the share of the fibre's strength a hand layup
- * realises. For now the default 0.5 (from memory, not a published figure) for every club; the club's
- * vessel policy will hold its own, and this is the one place that reads it.
+ * realises: its vessel policy's (default 0.5, from memory, not a published figure, until the safety
+ * officer saves another). This is the one place the coupon and estimate code reads it.
  */
-export async function clubProcessFactor(_clubId: string): Promise<number> {
-  return DEFAULT_HAND_LAYUP_PROCESS_FACTOR
+export async function clubProcessFactor(clubId: string): Promise<number> {
+  return (await vesselPolicy(clubId)).kProcess
 }
 
 /** The member recording a coupon test: they did it or witnessed it. */

@@ -7,7 +7,7 @@ import { startAppServer } from '../../../scripts/lib/processes.mjs'
 import { LOCAL, ROOT, TEST } from '../../../scripts/lib/config.mjs'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { makeClub, makeMember, makePhoto, type MadeMember } from '../../support/factories'
+import { clubDay, makeClub, makeMember, makePhoto, makeProofTest, type MadeMember } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
 import { serverEnv } from '../../support/test-env'
 import type { PhotoDto } from '../../../shared/types/photos'
@@ -235,6 +235,15 @@ describe('DELETE /api/photos/[id]', () => {
     expect((await api(`/api/photos/${id}`, { baseUrl: BASE, as: owner.cookie, method: 'DELETE' })).status).toBe(204)
     expect(storedFiles().filter(f => f.startsWith(id))).toEqual([])
     expect(await sql('SELECT id FROM photos WHERE id = $1', [id])).toEqual([])
+  })
+
+  it('keeps a gauge photo a recorded proof test points at (422), even for the safety officer', async () => {
+    const { photoId } = await makePhoto({ uploadedBy: instructor.memberId, vesselId: vessel.id, purpose: 'gauge' })
+    await makeProofTest({ vesselId: vessel.id, witnessId: instructor.memberId, testedOn: clubDay(-1), gaugePhotoId: photoId })
+    const res = await api<{ data: { reasons: { code: string }[] } }>(`/api/photos/${photoId}`, { baseUrl: BASE, as: safety.cookie, method: 'DELETE' })
+    expect(res.status).toBe(422)
+    expect(res.body.data.reasons.map(r => r.code)).toEqual(['PHOTO_IN_RECORD'])
+    expect(await sql('SELECT id FROM photos WHERE id = $1', [photoId])).toHaveLength(1)
   })
 
   it('makePhoto gives a row the routes see (no file behind it)', async () => {

@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, inject, it } from 'vitest'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
-import { clubDay, makeClub, makeMember, type MadeMember } from '../../support/factories'
+import { clubDay, makeClub, makeMember, makePhoto, type MadeMember } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
 import type { Paged } from '../../../shared/types/common'
 import type { BurstEstimateDto, CouponTestDto, LayupFamiliesDto } from '../../../shared/types/coupons'
@@ -29,9 +29,7 @@ async function memberWithCookie(clubId?: string): Promise<MadeMember & { cookie:
 
 /** A stored coupon photo of `clubId`, as the upload route leaves one (the bytes do not matter here). */
 async function couponPhoto(clubId: string, membershipId: string): Promise<string> {
-  const [row] = await sql<{ id: string }>(`INSERT INTO photos (club_id, uploaded_by_membership_id, purpose, content_type, byte_size, width, height)
-    VALUES ($1, $2, 'coupon', 'image/jpeg', 1000, 10, 10) RETURNING id`, [clubId, membershipId])
-  return row!.id
+  return (await makePhoto({ clubId, uploadedBy: membershipId, purpose: 'coupon' })).photoId
 }
 
 const glassCoupon = (change: Record<string, unknown> = {}) => ({
@@ -232,6 +230,19 @@ describe('layup families, their calibration factor, and a vessel\'s burst estima
     const v = await vessel({ name: 'Private', ...laminate, resin: 'Laminating epoxy' })
     expect((await api(`/api/vessels/${v.id}/burst-estimate`, { as: bruno.cookie })).status).toBe(404)
     expect((await api(`/api/vessels/${v.id}/burst-estimate`, { as: 'safety' })).status).toBe(404)
+  })
+
+  it('follows the club\'s own k_process once its safety officer saves one (last: it changes every estimate above)', async () => {
+    const officer = await makeMember({ clubId: club.id, roles: ['safety_officer'] })
+    const safety = { cookie: await signIn(inject('baseUrl'), officer.email, officer.password) }
+    const policy = (await api<Record<string, unknown>>('/api/vessel-policy', { as: safety.cookie })).body
+    expect((await api('/api/vessel-policy', { method: 'PUT', as: safety.cookie, body: { ...policy, kProcess: 0.4 } })).status).toBe(200)
+    expect((await api<LayupFamiliesDto>('/api/layup-families', { as: alice.cookie })).body.processFactor).toBe(0.4)
+    const v = await vessel({ name: 'Reprocessed', ...laminate, resin: 'Polyester' })
+    const res = await api<BurstEstimateDto>(`/api/vessels/${v.id}/burst-estimate`, { as: alice.cookie })
+    if (res.body.estimate === null) return expect.fail(res.body.reason)
+    // P is proportional to k_process: 0.4/0.5 of the hand-worked 61.122 bar.
+    expect(res.body.rawBar).toBeCloseTo(GLASS_3_PLIES_ON_100_BAR * 0.8, 6)
   })
 
   it('keeps another club\'s coupons out of the families and the list', async () => {
