@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 
-import { barToPsi, type PressureUnit } from '~~/shared/utils/units'
+import { barToPsi, formatPressureLimit, type PressureUnit } from '~~/shared/utils/units'
 
 /**
  * The member's unit preference for showing pressures: the preferred unit first, the other in small
@@ -25,5 +25,10 @@ export const useUnitsStore = defineStore('units', () => {
     return { main: inUnit(pressureBar, preference.value), other: inUnit(pressureBar, other.value) }
   }
 
-  return { preference, other, setPreference, inUnit, show }
+  /** A pressure limit (a rated fill) as { main, other }, both rounded down: see formatPressureLimit. */
+  function showLimit(pressureBar: number) {
+    return { main: formatPressureLimit(pressureBar, preference.value), other: formatPressureLimit(pressureBar, other.value) }
+  }
+
+  return { preference, other, setPreference, inUnit, show, showLimit }
 })

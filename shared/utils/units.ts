@@ -48,3 +48,16 @@ export function pressureToPa(pressure: number, unit: PressureEntryUnit): number 
 export function pressureFromPa(pressurePa: number, unit: PressureEntryUnit): number {
   return pressurePa / PA_PER_UNIT[unit]
 }
+
+/**
+ * A pressure LIMIT (a rated fill, a fill ceiling) for display: rounded DOWN, never up, so the figure a
+ * member reads is never above the limit — bar to the hundredth it is stored in, psi to the whole psi.
+ * (Rounding 9.99 bar to "10.0 bar" would print a limit the proof test did not give.) A tiny tolerance
+ * keeps a value already on the step, such as 145.0000001 psi, from falling one step.
+ */
+export function formatPressureLimit(pressureBar: number, unit: PressureUnit): string {
+  const floorTo = (value: number, step: number) => Math.floor(value / step + 1e-9) * step
+  return unit === 'bar'
+    ? `${floorTo(pressureBar, 0.01).toFixed(2)} bar`
+    : `${floorTo(barToPsi(pressureBar), 1).toFixed(0)} psi`
+}

@@ -1,5 +1,6 @@
 import { describe, expect, inject, it } from 'vitest'
 import QRCode from 'qrcode'
+import sharp from 'sharp'
 import type { Page } from 'playwright-core'
 import { setupBrowser, goTo, signedInPage } from '../support/browser'
 import { clubDay, makeClub, makeMember } from '../support/factories'
@@ -110,6 +111,72 @@ describe('the vessel registry in the browser', () => {
     }
     finally {
       await page.close()
+    }
+  })
+
+  it('the owner asks for a proof test, an instructor who is not the owner records a pass with a gauge photo, and the owner sees the rated fill', async () => {
+    const prefix = randomPrefix()
+    const club = await makeClub({ name: `Proof Club ${prefix}`, tagPrefix: prefix })
+    const owner = await makeMember({ clubId: club.id, unitPreference: 'bar' })
+    const instructor = await makeMember({ clubId: club.id, roles: ['instructor'] })
+    const cookie = await signIn(inject('baseUrl'), owner.email, owner.password)
+    const made = (await api<{ tag: string }>('/api/vessels', { method: 'POST', as: cookie, body: { name: 'Ringed Plover', construction: 'single_bottle', volumeL: 2, diameterMm: 102 } })).body
+
+    const ownerPage = await signedInPage(owner.email, owner.password)
+    try {
+      await goTo(ownerPage, `/vessels/${made.tag}`)
+      // The owner may not witness their own vessel: no proof form, only the request.
+      expect(await ownerPage.getByTestId('proof-form').count()).toBe(0)
+      await ownerPage.getByTestId('proof-ask').click()
+      await expect.poll(() => ownerPage.getByTestId('proof-ask').textContent()).toContain('Proof test asked for')
+    }
+    finally {
+      await ownerPage.close()
+    }
+
+    const witness = await signedInPage(instructor.email, instructor.password)
+    try {
+      await goTo(witness, `/vessels/${made.tag}`)
+      const form = witness.getByTestId('proof-form')
+      await form.waitFor()
+      expect(await form.textContent()).toMatch(/Nobody stands over a pressurised vessel|pressure/i)
+      await form.getByTestId('proof-pressure').fill('217.5')
+      await form.getByTestId('proof-unit').selectOption('psi')
+      await form.getByTestId('proof-hold').fill('120')
+      await form.getByTestId('proof-result').selectOption('pass')
+      const gauge = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 230, g: 230, b: 220 } } }).jpeg().toBuffer()
+      await form.getByTestId('proof-gauge-photo').setInputFiles({ name: 'gauge.jpg', mimeType: 'image/jpeg', buffer: gauge })
+      await form.getByTestId('proof-save').click()
+      await expect.poll(() => witness.getByTestId('vessel-state-in_service').count()).toBe(1)
+      // 217.5 psi = 14.996 bar (NIST SP 811 B.8: 1 psi = 6 894.757 Pa); rated fill = proof ÷ the
+      // club's margin 1.5 (the project's default), rounded down to the hundredth: 9.99 bar.
+      await expect.poll(() => witness.getByTestId('vessel-rated-fill').textContent()).toContain('9.99 bar')
+      expect(await witness.getByTestId('proof-history').textContent()).toContain(instructor.name)
+    }
+    finally {
+      await witness.close()
+    }
+    const [row] = await sql<{ pressure_bar: string, rated_fill_bar: string, witness: string, gauge: string | null }>(
+      `SELECT t.pressure_bar::text, t.rated_fill_bar::text, t.witness_membership_id AS witness, t.gauge_photo_id AS gauge
+        FROM proof_tests t JOIN vessels v ON v.id = t.vessel_id WHERE v.tag = $1`, [made.tag])
+    expect(row).toMatchObject({ witness: instructor.memberId })
+    expect(Number(row!.pressure_bar)).toBeCloseTo(14.996, 2)
+    expect(Number(row!.rated_fill_bar)).toBe(9.99)
+    expect(row!.gauge).not.toBeNull()
+
+    const again = await signedInPage(owner.email, owner.password)
+    try {
+      await goTo(again, `/vessels/${made.tag}`)
+      await expect.poll(() => again.getByTestId('vessel-rated-fill').textContent()).toContain('9.99 bar')
+      expect(await again.getByTestId('vessel-valid-through').textContent()).toMatch(/\d{4}/)
+      // The gauge photo is in the vessel's gallery for its owner.
+      await expect.poll(() => again.locator('[data-testid="vessel-photos"] img').count()).toBeGreaterThan(0)
+      await again.getByTestId('vessel-label-link').click()
+      await again.waitForURL(url => url.pathname === `/vessels/${made.tag}/label`)
+      await expect.poll(() => again.getByTestId('vessel-label').textContent()).toContain('9.99 bar')
+    }
+    finally {
+      await again.close()
     }
   })
 

@@ -1,7 +1,7 @@
 import { beforeEach, describe, expect, it } from 'vitest'
 import { createPinia, setActivePinia } from 'pinia'
 import { useUnitsStore } from '../../stores/units'
-import { PA_PER_BAR, PA_PER_PSI, barToPsi, psiToBar } from '../../shared/utils/units'
+import { PA_PER_BAR, PA_PER_PSI, barToPsi, formatPressureLimit, psiToBar } from '../../shared/utils/units'
 
 describe('the units store', () => {
   beforeEach(() => {
@@ -40,5 +40,19 @@ describe('the units store', () => {
 
   it('starts with bar', () => {
     expect(useUnitsStore().preference).toBe('bar')
+  })
+})
+
+describe('formatPressureLimit: a limit is shown rounded down, never up', () => {
+  it.each([
+    // Conversions by NIST SP 811 B.8 (1 psi = 6 894.757 Pa): 9.99 bar = 144.89 psi.
+    [9.99, 'bar', '9.99 bar'],
+    [9.99, 'psi', '144 psi'],
+    [10, 'psi', '145 psi'], // 145.04 psi
+    [10.666, 'bar', '10.66 bar'],
+    [psiToBar(145), 'psi', '145 psi'], // on the step: float noise does not drop it to 144
+    [0.004, 'bar', '0.00 bar'],
+  ] as const)('%s bar in %s → %s', (bar, unit, shown) => {
+    expect(formatPressureLimit(bar, unit)).toBe(shown)
   })
 })
