@@ -21,6 +21,9 @@ const SHOTS = [
   { who: 'member@hoopwise.example', path: '/profile', name: 'profile' },
   { who: 'member@hoopwise.example', path: '/glossary', name: 'glossary' },
   { who: 'member@hoopwise.example', path: '/calculator', name: 'calculator' },
+  { who: 'member@hoopwise.example', path: '/vessels/SRG-0001', name: 'vessel' },
+  { who: 'safety@hoopwise.example', path: '/vessels', name: 'vessels' },
+  { who: 'member@hoopwise.example', path: '/coupons', name: 'coupons' },
 ]
 
 mkdirSync(outDir, { recursive: true })

@@ -148,8 +148,8 @@ describe('the vessel registry in the browser', () => {
       await form.getByTestId('proof-gauge-photo').setInputFiles({ name: 'gauge.jpg', mimeType: 'image/jpeg', buffer: gauge })
       await form.getByTestId('proof-save').click()
       await expect.poll(() => witness.getByTestId('vessel-state-in_service').count()).toBe(1)
-      // 217.5 psi = 14.996 bar (NIST SP 811 B.8: 1 psi = 6 894.757 Pa); rated fill = proof ÷ the
-      // club's margin 1.5 (the project's default), rounded down to the hundredth: 9.99 bar.
+      // 217.5 psi = 14.996 bar (NIST SP 811 B.8: 1 psi = 6 894.757 Pa), kept as 14.99 (rounded down);
+      // rated fill = proof ÷ the club's margin 1.5 (the project's default), rounded down: 9.99 bar.
       await expect.poll(() => witness.getByTestId('vessel-rated-fill').textContent()).toContain('9.99 bar')
       expect(await witness.getByTestId('proof-history').textContent()).toContain(instructor.name)
     }
@@ -160,7 +160,7 @@ describe('the vessel registry in the browser', () => {
       `SELECT t.pressure_bar::text, t.rated_fill_bar::text, t.witness_membership_id AS witness, t.gauge_photo_id AS gauge
         FROM proof_tests t JOIN vessels v ON v.id = t.vessel_id WHERE v.tag = $1`, [made.tag])
     expect(row).toMatchObject({ witness: instructor.memberId })
-    expect(Number(row!.pressure_bar)).toBeCloseTo(14.996, 2)
+    expect(Number(row!.pressure_bar)).toBe(14.99)
     expect(Number(row!.rated_fill_bar)).toBe(9.99)
     expect(row!.gauge).not.toBeNull()
 

@@ -55,7 +55,10 @@ function toProofDto(r: ProofRow): ProofTestDto {
   }
 }
 
-/** Bar to two decimals, the way the table keeps it; a rated fill is rounded down, never up. */
+/**
+ * Bar to two decimals, the way the table keeps it. The proof pressure and the rated fill are both
+ * rounded down, never up: a record never claims more pressure than the gauge showed.
+ */
 const toHundredths = (bar: number, down = false) => (down ? Math.floor(bar * 100 + 1e-9) : Math.round(bar * 100)) / 100
 
 /**
@@ -90,7 +93,7 @@ export async function recordProofTest(witness: Actor, vesselId: string, input: P
     if (input.medium === 'air' && !rules.policy.airTestsAllowed) {
       reasons.push({ code: 'AIR_TESTS_NOT_ALLOWED', message: 'The club does not allow air proof tests: test full of water.' })
     }
-    const pressureBar = toHundredths(pressureToPa(input.pressure, input.unit) / PA_PER_BAR)
+    const pressureBar = toHundredths(pressureToPa(input.pressure, input.unit) / PA_PER_BAR, true)
     if (pressureBar <= 0 || pressureBar > MAX_PROOF_PRESSURE_BAR) {
       reasons.push({ code: 'PRESSURE_OUT_OF_RANGE', message: `The test pressure must be more than 0 and at most ${MAX_PROOF_PRESSURE_BAR} bar (got ${pressureBar} bar).` })
     }

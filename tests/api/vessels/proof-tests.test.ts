@@ -117,8 +117,9 @@ describe('the cure wait, the medium and the gauge photo', () => {
 describe('each result and the state it leads to', () => {
   it('a pass, entered in psi, is stored in bar and rates the vessel at proof ÷ 1.5, in service', async () => {
     const { vesselId } = await makeVessel({ ownerId: c.owner.memberId })
-    // 232.06 psi = 16.000 bar (1 psi = 6 894.757 Pa); rated fill 16 ÷ 1.5 = 10.666… → 10.66 bar (rounded down).
-    const res = await act(c.instructor, vesselId, 'proof-tests', { pressure: 232.06, unit: 'psi', result: 'pass', holdS: 180, notes: 'Steady for 3 min' })
+    // 232.07 psi = 16.0007 bar (NIST SP 811 B.8: 1 psi = 6 894.757 Pa) → 16.00 bar stored (rounded down);
+    // rated fill 16 ÷ 1.5 = 10.666… → 10.66 bar (rounded down).
+    const res = await act(c.instructor, vesselId, 'proof-tests', { pressure: 232.07, unit: 'psi', result: 'pass', holdS: 180, notes: 'Steady for 3 min' })
     expect(res.status).toBe(201)
     const test = res.body as ProofTestDto
     expect(test).toMatchObject({ pressureBar: 16, result: 'pass', medium: 'water', holdS: 180, marginRatio: 1.5, ratedFillBar: 10.66, failureLocation: null, witness: { id: c.instructor.memberId } })
