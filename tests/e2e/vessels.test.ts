@@ -122,6 +122,7 @@ describe('the vessel registry in the browser', () => {
     const cookie = await signIn(inject('baseUrl'), owner.email, owner.password)
     const made = (await api<{ tag: string }>('/api/vessels', { method: 'POST', as: cookie, body: { name: 'Ringed Plover', construction: 'single_bottle', volumeL: 2, diameterMm: 102 } })).body
 
+    const gauge = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 230, g: 230, b: 220 } } }).jpeg().toBuffer()
     const ownerPage = await signedInPage(owner.email, owner.password)
     try {
       await goTo(ownerPage, `/vessels/${made.tag}`)
@@ -144,7 +145,6 @@ describe('the vessel registry in the browser', () => {
       await form.getByTestId('proof-unit').selectOption('psi')
       await form.getByTestId('proof-hold').fill('120')
       await form.getByTestId('proof-result').selectOption('pass')
-      const gauge = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 230, g: 230, b: 220 } } }).jpeg().toBuffer()
       await form.getByTestId('proof-gauge-photo').setInputFiles({ name: 'gauge.jpg', mimeType: 'image/jpeg', buffer: gauge })
       await form.getByTestId('proof-save').click()
       await expect.poll(() => witness.getByTestId('vessel-state-in_service').count()).toBe(1)
@@ -169,8 +169,14 @@ describe('the vessel registry in the browser', () => {
       await goTo(again, `/vessels/${made.tag}`)
       await expect.poll(() => again.getByTestId('vessel-rated-fill').textContent()).toContain('9.99 bar')
       expect(await again.getByTestId('vessel-valid-through').textContent()).toMatch(/\d{4}/)
-      // The gauge photo is in the vessel's gallery for its owner.
-      await expect.poll(() => again.locator('[data-testid="vessel-photos"] img').count()).toBeGreaterThan(0)
+      // The gauge photo is in the vessel's gallery for its owner, who adds a build photo beside it.
+      await expect.poll(() => again.locator('[data-testid="vessel-photos"] img').count()).toBe(1)
+      const upload = again.getByTestId('photo-upload-build')
+      await upload.getByTestId('photo-file').setInputFiles({ name: 'layup.jpg', mimeType: 'image/jpeg', buffer: gauge })
+      await upload.getByTestId('photo-caption').fill('Second ply, wet out')
+      await upload.getByTestId('photo-upload').click()
+      await expect.poll(() => again.locator('[data-testid="vessel-photos"] img').count()).toBe(2)
+      expect(await again.getByAltText('Second ply, wet out').count()).toBe(1)
       await again.getByTestId('vessel-label-link').click()
       await again.waitForURL(url => url.pathname === `/vessels/${made.tag}/label`)
       await expect.poll(() => again.getByTestId('vessel-label').textContent()).toContain('9.99 bar')
