@@ -4,6 +4,7 @@ import { createHash, randomBytes, randomUUID } from 'node:crypto'
 import { createPasswordHash } from '../../server/services/accounts/password-hashing'
 import { sql } from './db'
 import type { Role } from '../../shared/utils/permissions'
+import { trainingExpiresOn } from '../../shared/utils/training-validity'
 
 export const CLUB_TIME_ZONE = 'Europe/London'
 export const FACTORY_PASSWORD = 'factory-password-123'
@@ -412,4 +413,30 @@ export async function makePhoto(o: { clubId?: string, uploadedBy: string, vessel
     contentType: 'image/jpeg', byteSize: 1024, width: 640, height: 480, caption: o.caption,
   }, o.db)
   return { photoId }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Training (dates as YYYY-MM-DD, e.g. clubDay(-30) for a course taken a month ago).
+
+/**
+ * A training record of course `course` (its code, e.g. 'composite_ppe') for member `memberId`, trained
+ * on `trainedOn` (default today), a pass unless given, expiring by the course's validity (the one rule,
+ * trainingExpiresOn) unless `expiresOn` is given. The trainer and issuer are `trainerId`.
+ */
+export async function makeTrainingRecord(o: { memberId: string, course: string, trainerId: string, trainedOn?: string, result?: 'pass' | 'fail', expiresOn?: string, takenElsewhere?: boolean, retrainingReason?: 'changed_workshop' | 'changed_ppe' | 'skill_not_retained', db?: string }): Promise<{ recordId: string, expiresOn: string }> {
+  const [c] = await sql<{ id: string, club_id: string, name: string, validity_months: number, trainee: string, trainer: string }>(
+    `SELECT c.id, c.club_id, c.name, c.validity_months, tu.name AS trainee, ru.name AS trainer
+       FROM memberships m JOIN users tu ON tu.id = m.user_id JOIN courses c ON c.club_id = m.club_id AND c.code = $2
+       JOIN memberships rm ON rm.id = $3 JOIN users ru ON ru.id = rm.user_id
+      WHERE m.id = $1`, [o.memberId, o.course, o.trainerId], o.db)
+  if (!c) throw new Error(`makeTrainingRecord: no course ${o.course} in the member's club`)
+  const trainedOn = o.trainedOn ?? clubDay(0)
+  const expiresOn = o.expiresOn ?? trainingExpiresOn(trainedOn, c.validity_months)
+  const recordId = await insertRow('training_records', {
+    clubId: c.club_id, membershipId: o.memberId, courseId: c.id, traineeName: c.trainee, subject: c.name,
+    trainedFrom: trainedOn, trainedTo: trainedOn, trainerName: c.trainer, trainerMembershipId: o.trainerId,
+    issuedByMembershipId: o.trainerId, result: o.result ?? 'pass', expiresOn, takenElsewhere: o.takenElsewhere ?? false,
+    ...(o.retrainingReason ? { retrainingRequiredAt: NOW, retrainingReason: o.retrainingReason, retrainingFlaggedByMembershipId: o.trainerId } : {}),
+  }, o.db)
+  return { recordId, expiresOn }
 }

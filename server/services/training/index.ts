@@ -1,0 +1,2 @@
+// The training domain's public surface: routes and other domains import from here, never from its files.
+export * from './courses'
