@@ -49,8 +49,8 @@ export async function memberRecords(clubId: string, membershipId: string): Promi
     { replacements: { clubId, membershipId }, type: QueryTypes.SELECT })
   const evidence = rows.length
     ? await useDb().query<Parameters<typeof toEvidenceDto>[0]>(
-      'SELECT id, membership_id, record_id, content_type, byte_size, created_at FROM training_evidence WHERE record_id IN (:ids) ORDER BY created_at',
-      { replacements: { ids: rows.map(r => r.id) }, type: QueryTypes.SELECT })
+        'SELECT id, membership_id, record_id, content_type, byte_size, created_at FROM training_evidence WHERE record_id IN (:ids) ORDER BY created_at',
+        { replacements: { ids: rows.map(r => r.id) }, type: QueryTypes.SELECT })
     : []
   return rows.map(r => ({
     id: r.id, membershipId: r.membership_id, traineeName: r.trainee_name, courseId: r.course_id, courseCode: r.course_code,
