@@ -2,14 +2,13 @@ import { describe, it, expect, beforeAll } from 'vitest'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { clubDay, makeMember, makeTrainingSession, makeEnrolment, setMembership, ago, type MadeMember } from '../../support/factories'
-import { signIn } from '../../support/global-setup'
-import { testEnv } from '../../support/test-env'
+import { signInFromOwnAddress } from './sign-in'
 import type { SessionPlaceDto, TrainingSessionDetailDto } from '../../../shared/types/training'
 
 type Member = MadeMember & { cookie: string }
 async function member(o: Parameters<typeof makeMember>[0] = {}): Promise<Member> {
   const m = await makeMember(o)
-  return { ...m, cookie: await signIn(testEnv.baseUrl, m.email, m.password) }
+  return { ...m, cookie: await signInFromOwnAddress(m.email, m.password) }
 }
 
 const enrol = (cookie: string, sessionId: string) => api<SessionPlaceDto & { data?: { reasons: { code: string }[] } }>(`/api/training/sessions/${sessionId}/enrolment`, { method: 'POST', as: cookie })

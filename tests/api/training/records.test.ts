@@ -3,7 +3,7 @@ import sharp from 'sharp'
 import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { clubDay, demoClubId, makeMember, makeTrainingSession, makeEnrolment, makeTrainingRecord, ago, type MadeMember } from '../../support/factories'
-import { signIn } from '../../support/global-setup'
+import { signInFromOwnAddress } from './sign-in'
 import { testEnv } from '../../support/test-env'
 import type { EvidenceDto, MyCourseDto, TrainingRecordDto, TrainingSessionDetailDto } from '../../../shared/types/training'
 import type { Paged } from '../../../shared/types/common'
@@ -11,7 +11,7 @@ import type { Paged } from '../../../shared/types/common'
 type Member = MadeMember & { cookie: string }
 async function member(o: Parameters<typeof makeMember>[0] = {}): Promise<Member> {
   const m = await makeMember(o)
-  return { ...m, cookie: await signIn(testEnv.baseUrl, m.email, m.password) }
+  return { ...m, cookie: await signInFromOwnAddress(m.email, m.password) }
 }
 const courseOf = async (cookie: string, code: string) => (await api<MyCourseDto[]>('/api/training/courses', { as: cookie })).body.find(c => c.code === code)!
 
