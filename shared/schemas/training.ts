@@ -29,6 +29,8 @@ const line = (max: number, required: string) => z.string().trim().min(1, require
  */
 export const localDateTime = z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/, 'Use the form YYYY-MM-DDTHH:mm')
   .refine((v) => {
+    // Refinements run after a failed pattern too: judge only what has the shape.
+    if (!/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/.test(v)) return true
     const [date, time] = v.split('T') as [string, string]
     const [h, m] = time.split(':').map(Number)
     return isoDate.safeParse(date).success && h! < 24 && m! < 60

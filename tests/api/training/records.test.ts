@@ -47,7 +47,9 @@ describe('running a session and issuing its records', () => {
   it('records attendance and the assessment, then issues the whole session in one step: passes, fails, nobody absent', async () => {
     const { sessionId } = await makeTrainingSession({ instructorId: instructor.memberId, startsAt: ago('4 hours') })
     const [pass, lowScore, noSignOff, absent] = await Promise.all([member(), member(), member(), member()])
-    const e = await Promise.all([pass, lowScore, noSignOff, absent].map(m => makeEnrolment({ sessionId, memberId: m!.memberId })))
+    // One after the other, so the trainees arrive (and are listed) in this order.
+    const e = []
+    for (const m of [pass, lowScore, noSignOff, absent]) e.push(await makeEnrolment({ sessionId, memberId: m!.memberId }))
     const entries = [
       { enrolmentId: e[0]!.enrolmentId, attended: true, theoryScorePercent: 92, practicalSignedOff: true },
       { enrolmentId: e[1]!.enrolmentId, attended: true, theoryScorePercent: 60, practicalSignedOff: true },
