@@ -9,7 +9,7 @@ import { useDb } from './db'
 //   1. memberships, in id order when there are several      lockMemberships
 //   2. the account's users row                               lockUser
 //   3. the club's vessel counter, then a vessel               takeVesselNumber; lockVessel when it lands
-//   4. training session, or booking                          (training and bookings, when they land)
+//   4. training session, or booking                          lockTrainingSession; (bookings, when they land)
 //   5. payment, then the receipt counter                     (dues and payments, when they land)
 //   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
 //                                                            updated in place after 1–2
@@ -61,6 +61,19 @@ export async function takeVesselNumber(clubId: string, transaction: Transaction)
  */
 export async function lockVessel(clubId: string, id: string, transaction: Transaction): Promise<Vessel | null> {
   return Vessel.findOne({ where: { id, clubId }, transaction, lock: transaction.LOCK.UPDATE })
+}
+
+/**
+ * Locks training session `id` of club `clubId` FOR UPDATE inside `transaction` (step 4) and returns what
+ * enrolments and issuing decide on, or undefined: simultaneous enrolments take places one after the
+ * other under it (so a session never holds more than its capacity, and arrival order is lock order).
+ */
+export async function lockTrainingSession(clubId: string, id: string, transaction: Transaction): Promise<{ id: string, capacity: number, starts_at: Date, ends_at: Date, issued_at: Date | null, instructor_membership_id: string, course_id: string } | undefined> {
+  const [row] = await useDb().query<{ id: string, capacity: number, starts_at: Date, ends_at: Date, issued_at: Date | null, instructor_membership_id: string, course_id: string }>(
+    `SELECT id, capacity, starts_at, ends_at, issued_at, instructor_membership_id, course_id
+       FROM training_sessions WHERE id = :id AND club_id = :clubId FOR UPDATE`,
+    { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
+  return row
 }
 
 /** Locks notice `id` of club `clubId` FOR UPDATE (step 6) and returns what a retry decides on, or undefined. */

@@ -39,6 +39,8 @@ export const REQUEST_RULES: Record<string, Partial<RequestRule>> = {
   'POST /api/notices/opt-out': { mediaTypes: ['application/json', 'application/x-www-form-urlencoded'], crossSite: true },
   // A photo (10 MB at most, checked again by busboy while it streams) with its few short fields.
   'POST /api/photos': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
+  // A training record's evidence file (PDF, JPEG or PNG, 10 MB at most) with its few short fields.
+  'POST /api/training/evidence': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
 }
 
 function matches(pattern: string, path: string): boolean {

@@ -35,6 +35,11 @@ export const AUDIT_ACTIONS = [
   'vessel.release',
   'vessel.retire',
   'policy.vessels',
+  'training.course',
+  'training.session',
+  'training.issue',
+  'training.retraining',
+  'training.record_elsewhere',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -62,6 +67,11 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'vessel.release': { label: 'Released a vessel', meaning: 'The safety officer released a quarantined vessel; it needs a new proof test before any fill.' },
   'vessel.retire': { label: 'Retired a vessel', meaning: 'Its owner or the safety officer took a vessel out of use for good.' },
   'policy.vessels': { label: 'Changed the vessel policy', meaning: 'The safety officer changed the proof margin, intervals, fill limits, cure wait, air tests or distance rule.' },
+  'training.course': { label: 'Changed a course', meaning: 'The safety officer changed a course\'s name, description, validity, pass mark or practical sign-off.' },
+  'training.session': { label: 'Scheduled a training session', meaning: 'An instructor scheduled a session of a course for members to enrol in.' },
+  'training.issue': { label: 'Issued a session\'s training records', meaning: 'An instructor issued the records of everyone who attended a session, passes and fails, in one step.' },
+  'training.retraining': { label: 'Flagged a record for retraining', meaning: 'An instructor or the safety officer flagged a training record: it is not current until a new record is issued.' },
+  'training.record_elsewhere': { label: 'Entered a course taken elsewhere', meaning: 'An instructor entered a record of a course the member took elsewhere, with its evidence.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -82,6 +92,9 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   notice: 'An e-mail in the outbox',
   club: 'The club',
   vessel: 'A vessel',
+  course: 'A course',
+  training_session: 'A training session',
+  training_record: 'A training record',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -52,6 +52,22 @@ export const FIELD_LABELS: Record<string, string> = {
   airTestsAllowed: 'Air proof tests allowed',
   distanceRule: 'Distance rule',
   kProcess: 'Hand-layup process factor',
+  // Training: courses, sessions and records
+  description: 'Description',
+  validityMonths: 'Validity (months)',
+  passMarkPercent: 'Theory pass mark (%)',
+  practicalRequired: 'Practical sign-off needed',
+  courseId: 'Course',
+  startsAt: 'Starts',
+  endsAt: 'Ends',
+  place: 'Place',
+  capacity: 'Places',
+  issued: 'Records issued',
+  passed: 'Passed',
+  retrainingReason: 'Retraining reason',
+  trainedTo: 'Trained (last day)',
+  expiresOn: 'Expires',
+  evidenceFiles: 'Evidence files',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

@@ -91,6 +91,21 @@ const MATRIX: Record<string, Row> = {
   'GET /api/vessels/[id]/burst-estimate': signedIn(404), // [id] is a membership id here: no such vessel
   'GET /api/vessels/by-tag/[tag]': signedIn(404), // a tag no club has given
   'GET /api/vessels/[id]/label': signedIn(404), // [id] is a membership id here: no such vessel
+  'GET /api/training/courses': signedIn(200), // every member sees every course and where they stand
+  'PUT /api/training/courses/[id]': only(400, 'safety'), // policy.edit: the safety officer sets validity and pass marks
+  'GET /api/training/courses/[id]/roster': only(404, 'instructor', 'safety', 'admin'), // members.read; [id] is no course
+  'GET /api/training/sessions': signedIn(200),
+  'POST /api/training/sessions': only(400, 'instructor', 'safety'), // training.run; the demo safety officer is an instructor
+  'GET /api/training/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session
+  'POST /api/training/sessions/[id]/enrolment': signedIn(404), // every member enrols themselves; no such session
+  'DELETE /api/training/sessions/[id]/enrolment': signedIn(404),
+  'PUT /api/training/sessions/[id]/attendance': only(400, 'instructor', 'safety'),
+  'POST /api/training/sessions/[id]/issue': only(400, 'instructor', 'safety'),
+  'GET /api/training/records': signedIn(200), // the caller's own
+  'POST /api/training/records': only(400, 'instructor', 'safety'), // a course taken elsewhere
+  'POST /api/training/records/[id]/retraining': only(400, 'instructor', 'safety'), // training.flag
+  'POST /api/training/evidence': only(400, 'instructor', 'safety'), // an empty multipart form
+  'GET /api/training/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
 }
 
 let subjectId = ''

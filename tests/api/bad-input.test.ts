@@ -24,6 +24,8 @@ const NO_BODY: Record<string, string> = {
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
   'POST /api/vessels/[id]/proof-requests': 'asks for a proof test of the vessel in the path; takes no body',
   'DELETE /api/photos/[id]': 'removes the photo in the path; takes no body',
+  'POST /api/training/sessions/[id]/enrolment': 'enrols the caller in the session in the path; takes no body',
+  'DELETE /api/training/sessions/[id]/enrolment': 'withdraws the caller from the session in the path; takes no body',
 }
 
 const WHOLE_BODY: [string, string | object][] = [

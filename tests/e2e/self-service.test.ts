@@ -45,9 +45,10 @@ describe('a member\'s own screens', () => {
       await page.waitForURL(url => url.pathname === '/standing')
       expect(await page.getByTestId('waiver-line').textContent()).toMatch(/Accepted/)
       expect(await page.getByTestId('status-chip').textContent()).toBe('Active')
-      for (const section of ['training', 'tier']) {
-        expect(await page.getByTestId(`standing-${section}`).getByTestId('section-empty').textContent()).toMatch(/will appear here/)
-      }
+      expect(await page.getByTestId('standing-tier').getByTestId('section-empty').textContent()).toMatch(/will appear here/)
+      // The training section lists every course; a new member has taken none.
+      await page.getByTestId('standing-training').getByTestId('course-composite_ppe').waitFor()
+      expect(await page.getByTestId('standing-training').getByTestId('course-standing-never_taken').count()).toBe(7)
       // The vessels have their own page; the standing points there.
       await page.getByTestId('standing-to-vessels').click()
       await page.waitForURL(url => url.pathname === '/vessels')

@@ -440,3 +440,27 @@ export async function makeTrainingRecord(o: { memberId: string, course: string, 
   }, o.db)
   return { recordId, expiresOn }
 }
+
+/**
+ * A training session of course `course` (its code) in the demo club (or `clubId`), run by
+ * `instructorId`, starting `startsAt` (default in 7 days), with `capacity` places (default 5).
+ */
+export async function makeTrainingSession(o: { instructorId: string, course?: string, startsAt?: When, endsAt?: When, capacity?: number, place?: string, clubId?: string, db?: string }): Promise<{ sessionId: string, courseId: string }> {
+  const clubId = o.clubId ?? await demoClubId(o.db)
+  const [c] = await sql<{ id: string }>('SELECT id FROM courses WHERE club_id = $1 AND code = $2', [clubId, o.course ?? 'composite_ppe'], o.db)
+  if (!c) throw new Error(`makeTrainingSession: no course ${o.course}`)
+  const startsAt = o.startsAt ?? fromNow('7 days')
+  // A session that started in the past is still running (it ends 3 hours from now); any other lasts 3 hours.
+  const endsAt = o.endsAt ?? (isRelative(startsAt) ? (startsAt.before ? fromNow('3 hours') : fromNow(`${startsAt.interval} 10800 seconds`)) : new Date(startsAt.getTime() + 3 * 3600_000))
+  const sessionId = await insertRow('training_sessions', {
+    clubId, courseId: c.id, instructorMembershipId: o.instructorId, startsAt, endsAt, place: o.place ?? 'Test workshop', capacity: o.capacity ?? 5,
+  }, o.db)
+  return { sessionId, courseId: c.id }
+}
+
+/** A member's place in a session (enrolled unless given), as if they had enrolled; returns its id. */
+export async function makeEnrolment(o: { sessionId: string, memberId: string, status?: 'enrolled' | 'waiting', db?: string }): Promise<{ enrolmentId: string }> {
+  const [s] = await sql<{ club_id: string }>('SELECT club_id FROM training_sessions WHERE id = $1', [o.sessionId], o.db)
+  const enrolmentId = await insertRow('training_enrolments', { clubId: s!.club_id, sessionId: o.sessionId, membershipId: o.memberId, status: o.status ?? 'enrolled' }, o.db)
+  return { enrolmentId }
+}

@@ -4,6 +4,7 @@
  */
 import { tokenLifetimeWords } from '../accounts'
 import { JOINING_CAUTION, PRESSURE_CAUTION } from '#shared/utils/wording'
+import { COMPOSITE_CAUTION } from '#shared/utils/training-words'
 
 export interface NoticeVars {
   clubName: string
@@ -124,6 +125,30 @@ export const NOTICE_KINDS = {
       'Ask for a proof test on the vessel\'s page in good time. A repair, damage, a crash or heat exposure ends the proof sooner: report it, and do not fill the vessel.',
       PRESSURE_CAUTION,
     ], { label: 'See the vessel', url: `${v.baseUrl}/vessels/${v.vesselTag}` }),
+  },
+  // Safety: a record that lapses no longer lets the member do what the course guards (a station, a tier).
+  training_expiring: {
+    optional: false,
+    label: 'Training record expiring (60, 30 and 7 days)',
+    description: 'Sent 60, 30 and 7 days before a training record, a respirator fit test included, stops being current.',
+    render: v => notice(`Your ${v.courseName} record expires on ${longDate(v.expiresOn)}`, [
+      `Hello ${v.memberName},`,
+      `Your training record "${v.courseName}" is current through ${longDate(v.expiresOn)} (${v.daysBefore} days from when this was sent). After that day it no longer counts for the stations, fills and tiers that need it.`,
+      v.courseCode === 'respirator_fit'
+        ? 'A tight-fitting respirator is fit-tested before first use and at least every 12 months: book your fit test before this one runs out.'
+        : 'Enrol in a session of the course in good time to keep it current.',
+    ], { label: 'See my training', url: `${v.baseUrl}/training` }),
+  },
+  training_moved_up: {
+    optional: true,
+    label: 'Moved up from a waiting list',
+    description: 'When someone withdraws and you get their place in a training session.',
+    render: v => notice(`You have a place: ${v.courseName}, ${v.startsAt}`, [
+      `Hello ${v.memberName},`,
+      `A place came free in the ${v.courseName} session on ${v.startsAt} at ${v.place}, and you were next on the waiting list: it is yours now.`,
+      'If you can no longer come, withdraw on the sessions page so the next member gets the place.',
+      ...(v.courseCode === 'composite_ppe' ? [COMPOSITE_CAUTION] : []),
+    ], { label: 'See the session', url: `${v.baseUrl}/training/sessions/${v.sessionId}` }),
   },
 } satisfies Record<string, NoticeKind>
 

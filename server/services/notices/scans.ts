@@ -5,6 +5,7 @@ import { addCalendarDays } from '#shared/utils/dates'
 import { clubBaseUrl, clubToday } from '../clubs'
 import { enqueueNotice } from './notices'
 import { proofsLapsingSoon } from '../vessels'
+import { trainingRecordsExpiringSoon } from '../training'
 
 interface DueMember { id: string, paid_through: string, email: string, name: string }
 
@@ -69,6 +70,29 @@ async function scanClubProofLapsing(club: Club, now: Date): Promise<number> {
   return queued
 }
 
+/**
+ * Queues a `training_expiring` notice for every member whose latest record of a course (the
+ * respirator fit test included) expires within 60 days: the 60-, 30- and 7-day warnings, each once.
+ * The subject is the record, the due date its expiry minus the warning's days, so a rerun queues
+ * nothing and a new record (a new expiry) starts again. Safety: nobody can opt out. Returns how many.
+ */
+async function scanClubTrainingExpiring(club: Club, now: Date): Promise<number> {
+  let queued = 0
+  for (const r of await trainingRecordsExpiringSoon(club.id, clubToday(club, now))) {
+    const added = await enqueueNotice({
+      clubId: club.id,
+      membershipId: r.membershipId,
+      kind: 'training_expiring',
+      subjectKey: r.recordId,
+      dueOn: addCalendarDays(r.expiresOn, -r.daysBefore),
+      toEmail: r.email,
+      vars: { clubName: club.name, memberName: r.name, baseUrl: clubBaseUrl(club), courseName: r.courseName, courseCode: r.courseCode, expiresOn: r.expiresOn, daysBefore: r.daysBefore },
+    })
+    if (added) queued += 1
+  }
+  return queued
+}
+
 /** Runs every reminder scan for club `clubId` (or every club); returns how many notices were queued. */
 export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {}): Promise<number> {
   const clubs = await Club.findAll({ where: opts.clubId ? { id: opts.clubId } : {}, order: [['createdAt', 'ASC']] })
@@ -76,6 +100,7 @@ export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {})
   for (const club of clubs) {
     queued += await scanClubDuesReminders(club, opts.now ?? new Date())
     queued += await scanClubProofLapsing(club, opts.now ?? new Date())
+    queued += await scanClubTrainingExpiring(club, opts.now ?? new Date())
   }
   return queued
 }

@@ -108,6 +108,8 @@ beforeAll(async () => {
   await setNotice({ status: 'queued' }, { status: 'skipped' }, databaseUrl)
   // Nor is any demo vessel's proof about to lapse (a safety notice nobody can opt out of).
   await sql(`UPDATE vessels SET state = 'retired' WHERE state = 'in_service'`, [], databaseUrl)
+  // Nor is any demo training record about to expire (a safety notice too).
+  await sql(`UPDATE training_records SET expires_on = (expires_on + interval '5 years')::date`, [], databaseUrl)
 }, 180_000)
 
 afterAll(async () => {

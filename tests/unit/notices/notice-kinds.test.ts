@@ -20,6 +20,13 @@ function varsFor(baseUrl: string): NoticeVars {
     vesselTag: 'SRG-0042',
     vesselName: 'Gull',
     validThrough: '2026-04-30',
+    courseName: 'Composite handling and PPE',
+    courseCode: 'composite_ppe',
+    expiresOn: '2026-05-20',
+    daysBefore: 30,
+    startsAt: 'Saturday 2 May 2026 at 10:00',
+    place: 'Workshop, laminating bay',
+    sessionId: '0b6a3c1e-5d2f-4e8a-9c7b-1a2b3c4d5e6f',
   }
 }
 
@@ -51,6 +58,14 @@ describe('every notice kind renders subject, text and HTML from the club address
     const n = composeNotice('password_reset', { ...varsFor(BASE), memberName: '<img src=x onerror=alert(1)>' })
     expect(n.html).not.toContain('<img src=x')
     expect(n.html).toContain('&lt;img src=x onerror=alert(1)&gt;')
+  })
+
+  it('tells of a training record expiring, with the fit test\'s own words, and of a place on a session', () => {
+    expect(composeNotice('training_expiring', varsFor(BASE)).subject).toBe('Your Composite handling and PPE record expires on 20 May 2026')
+    expect(composeNotice('training_expiring', { ...varsFor(BASE), courseName: 'Respirator fit test', courseCode: 'respirator_fit' }).text).toMatch(/at least every 12 months/)
+    const moved = composeNotice('training_moved_up', varsFor(BASE), optOutUrl(SECRET, BASE, MEMBER, 'training_moved_up'))
+    expect(moved.text).toMatch(/sensitise skin/)
+    expect(moved.text).toContain(`${BASE}/training/sessions/`)
   })
 
   it('shows dues dates in words', () => {
