@@ -35,6 +35,9 @@ export const AUDIT_ACTIONS = [
   'vessel.release',
   'vessel.retire',
   'policy.vessels',
+  'station.create',
+  'station.update',
+  'booking.cancel',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -62,6 +65,9 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'vessel.release': { label: 'Released a vessel', meaning: 'The safety officer released a quarantined vessel; it needs a new proof test before any fill.' },
   'vessel.retire': { label: 'Retired a vessel', meaning: 'Its owner or the safety officer took a vessel out of use for good.' },
   'policy.vessels': { label: 'Changed the vessel policy', meaning: 'The safety officer changed the proof margin, intervals, fill limits, cure wait, air tests or distance rule.' },
+  'station.create': { label: 'Added a workshop station', meaning: 'An officer added a bench, cure-rack slot, booth or rig with its courses, hours and limits.' },
+  'station.update': { label: 'Changed a workshop station', meaning: 'An officer changed a station\'s name, required courses, opening hours, longest booking or adults-only rule.' },
+  'booking.cancel': { label: 'Cancelled a member\'s booking', meaning: 'An officer cancelled another member\'s workshop booking, with the reason; the member was e-mailed.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -82,6 +88,8 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   notice: 'An e-mail in the outbox',
   club: 'The club',
   vessel: 'A vessel',
+  station: 'A workshop station',
+  booking: 'A workshop booking',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -440,3 +440,17 @@ export async function makeTrainingRecord(o: { memberId: string, course: string, 
   }, o.db)
   return { recordId, expiresOn }
 }
+
+/** Opening hours open every day from `opens` to `closes` (wall clock, Monday first). */
+export const openEveryDay = (opens = '00:00', closes = '24:00') => Array.from({ length: 7 }, () => ({ opens, closes }))
+
+/** A workshop station of club `clubId` (default the demo club): open all day every day, no courses, 4 hours at most, unless overridden. */
+export async function makeStation(o: { clubId?: string, name?: string, kind?: 'laminating_bench' | 'cure_rack_slot' | 'sanding_booth' | 'test_rig', requiredCourses?: string[], maxBookingMinutes?: number, openingHours?: ({ opens: string, closes: string } | null)[], adultsOnly?: boolean, position?: number, db?: string } = {}): Promise<{ stationId: string, name: string }> {
+  const name = o.name ?? `Station ${randomUUID().slice(0, 8)}`
+  const stationId = await insertRow('stations', {
+    clubId: o.clubId ?? await demoClubId(o.db), name, kind: o.kind ?? 'laminating_bench', requiredCourses: o.requiredCourses ?? [],
+    maxBookingMinutes: o.maxBookingMinutes ?? 240, openingHours: JSON.stringify(o.openingHours ?? openEveryDay()), adultsOnly: o.adultsOnly ?? false,
+    position: o.position ?? 0,
+  }, o.db)
+  return { stationId, name }
+}
