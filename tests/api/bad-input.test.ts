@@ -24,6 +24,7 @@ const NO_BODY: Record<string, string> = {
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
   'POST /api/vessels/[id]/proof-requests': 'asks for a proof test of the vessel in the path; takes no body',
   'DELETE /api/photos/[id]': 'removes the photo in the path; takes no body',
+  'DELETE /api/me/calendar-feed': 'revokes the signed-in member\'s calendar link; takes no body',
 }
 
 const WHOLE_BODY: [string, string | object][] = [

@@ -454,3 +454,11 @@ export async function makeStation(o: { clubId?: string, name?: string, kind?: 'l
   }, o.db)
   return { stationId, name }
 }
+
+/** A live booking of `stationId` by `memberId` from `startsAt` to `endsAt` (instants; a past one too), in the station's club. */
+export async function makeBooking(o: { stationId: string, memberId: string, startsAt: When, endsAt: When, note?: string, db?: string }): Promise<{ bookingId: string }> {
+  const [s] = await sql<{ club_id: string }>('SELECT club_id FROM stations WHERE id = $1', [o.stationId], o.db)
+  if (!s) throw new Error('makeBooking: no such station')
+  const bookingId = await insertRow('bookings', { clubId: s.club_id, stationId: o.stationId, membershipId: o.memberId, startsAt: o.startsAt, endsAt: o.endsAt, note: o.note ?? '' }, o.db)
+  return { bookingId }
+}
