@@ -20,6 +20,9 @@ function varsFor(baseUrl: string): NoticeVars {
     vesselTag: 'SRG-0042',
     vesselName: 'Gull',
     validThrough: '2026-04-30',
+    stationName: 'Laminating bench A',
+    startsText: '14 Mar 2026, 10:00',
+    endsText: '14 Mar 2026, 12:00',
   }
 }
 
