@@ -52,6 +52,16 @@ export const FIELD_LABELS: Record<string, string> = {
   airTestsAllowed: 'Air proof tests allowed',
   distanceRule: 'Distance rule',
   kProcess: 'Hand-layup process factor',
+  // Workshop stations and bookings
+  requiredCourses: 'Required courses',
+  maxBookingMinutes: 'Longest booking (minutes)',
+  openingHours: 'Opening hours',
+  adultsOnly: 'Adults only',
+  position: 'Order in the list',
+  stationId: 'Station',
+  startsAt: 'Starts',
+  endsAt: 'Ends',
+  membershipId: 'Booked by (member)',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

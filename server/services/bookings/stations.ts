@@ -91,7 +91,11 @@ export async function updateStation(actor: Actor, id: string, input: StationInpu
       { replacements: { id, clubId, ...columns(input) }, transaction })
     await recordAudit(actor, clubId, {
       action: 'station.update', subjectType: 'station', subjectId: id,
-      before: { ...stationDto(before), requiredCourses: before.required_courses }, after: { ...input },
+      before: {
+        name: before.name, kind: before.kind, requiredCourses: before.required_courses, maxBookingMinutes: before.max_booking_minutes,
+        openingHours: before.opening_hours, adultsOnly: before.adults_only, position: before.position,
+      },
+      after: { ...input },
     }, transaction)
   }, { uniqueMessage: 'The club already has a station with that name.' })
   return stationDto((await loadStations(clubId, { stationId: id }))[0]!)
