@@ -83,3 +83,14 @@ export async function lockNotice(clubId: string, id: string, transaction: Transa
     { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
   return row
 }
+
+/**
+ * Locks booking `id` of club `clubId` FOR UPDATE (step 4) and returns what a cancellation decides on,
+ * or undefined: two cancellations of one booking wait for each other instead of both e-mailing.
+ */
+export async function lockBooking(clubId: string, id: string, transaction: Transaction): Promise<{ membership_id: string, station_id: string, starts_at: Date, ends_at: Date, cancelled_at: Date | null } | undefined> {
+  const [row] = await useDb().query<{ membership_id: string, station_id: string, starts_at: Date, ends_at: Date, cancelled_at: Date | null }>(
+    'SELECT membership_id, station_id, starts_at, ends_at, cancelled_at FROM bookings WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
+  return row
+}

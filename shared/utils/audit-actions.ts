@@ -40,6 +40,9 @@ export const AUDIT_ACTIONS = [
   'training.issue',
   'training.retraining',
   'training.record_elsewhere',
+  'station.create',
+  'station.update',
+  'booking.cancel',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -72,6 +75,9 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'training.issue': { label: 'Issued a session\'s training records', meaning: 'An instructor issued the records of everyone who attended a session, passes and fails, in one step.' },
   'training.retraining': { label: 'Flagged a record for retraining', meaning: 'An instructor or the safety officer flagged a training record: it is not current until a new record is issued.' },
   'training.record_elsewhere': { label: 'Entered a course taken elsewhere', meaning: 'An instructor entered a record of a course the member took elsewhere, with its evidence.' },
+  'station.create': { label: 'Added a workshop station', meaning: 'An officer added a bench, cure-rack slot, booth or rig with its courses, hours and limits.' },
+  'station.update': { label: 'Changed a workshop station', meaning: 'An officer changed a station\'s name, required courses, opening hours, longest booking or adults-only rule.' },
+  'booking.cancel': { label: 'Cancelled a member\'s booking', meaning: 'An officer cancelled another member\'s workshop booking, with the reason; the member was e-mailed.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -95,6 +101,8 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   course: 'A course',
   training_session: 'A training session',
   training_record: 'A training record',
+  station: 'A workshop station',
+  booking: 'A workshop booking',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

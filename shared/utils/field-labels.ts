@@ -68,6 +68,14 @@ export const FIELD_LABELS: Record<string, string> = {
   trainedTo: 'Trained (last day)',
   expiresOn: 'Expires',
   evidenceFiles: 'Evidence files',
+  // Workshop stations and bookings
+  requiredCourses: 'Required courses',
+  maxBookingMinutes: 'Longest booking (minutes)',
+  openingHours: 'Opening hours',
+  adultsOnly: 'Adults only',
+  position: 'Order in the list',
+  stationId: 'Station',
+  membershipId: 'Booked by (member)',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

@@ -106,6 +106,17 @@ const MATRIX: Record<string, Row> = {
   'POST /api/training/records/[id]/retraining': only(400, 'instructor', 'safety'), // training.flag
   'POST /api/training/evidence': only(400, 'instructor', 'safety'), // an empty multipart form
   'GET /api/training/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
+  'GET /api/stations': signedIn(200),
+  'POST /api/stations': only(400, 'safety', 'admin'), // stations.manage
+  'PUT /api/stations/[id]': only(400, 'safety', 'admin'),
+  'GET /api/bookings': signedIn(200), // the week view: every member
+  'POST /api/bookings': signedIn(400), // every member books for themselves; the rules answer 422
+  'GET /api/bookings/mine': signedIn(200),
+  'POST /api/bookings/[id]/cancel': signedIn(404), // [id] is a membership id here: no such booking
+  'GET /api/me/calendar-feed': signedIn(200),
+  'POST /api/me/calendar-feed': signedIn(400), // not confirmed: the link is not renewed
+  'DELETE /api/me/calendar-feed': signedIn(200),
+  'GET /api/calendar/[token]': open(404), // no session, only the private link's token; an unknown one
 }
 
 let subjectId = ''
@@ -118,6 +129,7 @@ let subjectId = ''
 const PARAM_VALUES: Record<string, () => string> = {
   id: () => subjectId,
   tag: () => 'ZZZZZ-9999',
+  token: () => 'A'.repeat(43),
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]

@@ -26,6 +26,7 @@ const NO_BODY: Record<string, string> = {
   'DELETE /api/photos/[id]': 'removes the photo in the path; takes no body',
   'POST /api/training/sessions/[id]/enrolment': 'enrols the caller in the session in the path; takes no body',
   'DELETE /api/training/sessions/[id]/enrolment': 'withdraws the caller from the session in the path; takes no body',
+  'DELETE /api/me/calendar-feed': 'revokes the signed-in member\'s calendar link; takes no body',
 }
 
 const WHOLE_BODY: [string, string | object][] = [

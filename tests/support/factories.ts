@@ -464,3 +464,28 @@ export async function makeEnrolment(o: { sessionId: string, memberId: string, st
   const enrolmentId = await insertRow('training_enrolments', { clubId: s!.club_id, sessionId: o.sessionId, membershipId: o.memberId, status: o.status ?? 'enrolled' }, o.db)
   return { enrolmentId }
 }
+
+// ---------------------------------------------------------------------------------------------
+// Workshop stations and bookings.
+
+/** Opening hours open every day from `opens` to `closes` (wall clock, Monday first). */
+export const openEveryDay = (opens = '00:00', closes = '24:00') => Array.from({ length: 7 }, () => ({ opens, closes }))
+
+/** A workshop station of club `clubId` (default the demo club): open all day every day, no courses, 4 hours at most, unless overridden. */
+export async function makeStation(o: { clubId?: string, name?: string, kind?: 'laminating_bench' | 'cure_rack_slot' | 'sanding_booth' | 'test_rig', requiredCourses?: string[], maxBookingMinutes?: number, openingHours?: ({ opens: string, closes: string } | null)[], adultsOnly?: boolean, position?: number, db?: string } = {}): Promise<{ stationId: string, name: string }> {
+  const name = o.name ?? `Station ${randomUUID().slice(0, 8)}`
+  const stationId = await insertRow('stations', {
+    clubId: o.clubId ?? await demoClubId(o.db), name, kind: o.kind ?? 'laminating_bench', requiredCourses: o.requiredCourses ?? [],
+    maxBookingMinutes: o.maxBookingMinutes ?? 240, openingHours: JSON.stringify(o.openingHours ?? openEveryDay()), adultsOnly: o.adultsOnly ?? false,
+    position: o.position ?? 0,
+  }, o.db)
+  return { stationId, name }
+}
+
+/** A live booking of `stationId` by `memberId` from `startsAt` to `endsAt` (instants; a past one too), in the station's club. */
+export async function makeBooking(o: { stationId: string, memberId: string, startsAt: When, endsAt: When, note?: string, db?: string }): Promise<{ bookingId: string }> {
+  const [s] = await sql<{ club_id: string }>('SELECT club_id FROM stations WHERE id = $1', [o.stationId], o.db)
+  if (!s) throw new Error('makeBooking: no such station')
+  const bookingId = await insertRow('bookings', { clubId: s.club_id, stationId: o.stationId, membershipId: o.memberId, startsAt: o.startsAt, endsAt: o.endsAt, note: o.note ?? '' }, o.db)
+  return { bookingId }
+}

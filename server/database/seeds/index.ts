@@ -8,6 +8,7 @@ import { seedWaiver } from './waiver'
 import { seedVessels } from './vessels'
 import { seedCouponTests } from './coupons'
 import { seedTraining } from './training'
+import { seedStations } from './stations'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -20,6 +21,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedVessels,
   seedCouponTests,
   seedTraining,
+  seedStations,
 ]
 
 /** Seeds the demo club in one transaction. */

@@ -150,6 +150,27 @@ export const NOTICE_KINDS = {
       ...(v.courseCode === 'composite_ppe' ? [COMPOSITE_CAUTION] : []),
     ], { label: 'See the session', url: `${v.baseUrl}/training/sessions/${v.sessionId}` }),
   },
+  booking_confirmed: {
+    optional: true,
+    label: 'Workshop booking confirmed',
+    description: 'Sent when you book a workshop station.',
+    render: v => notice(`Booked: ${v.stationName}, ${v.startsText}`, [
+      `Hello ${v.memberName},`,
+      `You booked ${v.stationName} at ${v.clubName} from ${v.startsText} to ${v.endsText} (the club's time).`,
+      ...(v.cureText ? [String(v.cureText)] : []),
+      'Resin and hardener sensitise skin: gloves, eye protection and the ventilation on whenever they are open. Cancel on your bookings page if your plans change, so someone else can use it.',
+    ], { label: 'See my bookings', url: `${v.baseUrl}/workshop/mine` }),
+  },
+  booking_cancelled: {
+    optional: true,
+    label: 'Workshop booking cancelled',
+    description: 'Sent when a booking of yours is cancelled, by you or by an officer.',
+    render: v => notice(`Cancelled: ${v.stationName}, ${v.startsText}`, [
+      `Hello ${v.memberName},`,
+      `Your booking of ${v.stationName} at ${v.clubName} from ${v.startsText} to ${v.endsText} (the club's time) is cancelled.`,
+      ...(v.reasonText ? [String(v.reasonText)] : []),
+    ], { label: 'Book again', url: `${v.baseUrl}/workshop` }),
+  },
 } satisfies Record<string, NoticeKind>
 
 export type NoticeKindName = keyof typeof NOTICE_KINDS

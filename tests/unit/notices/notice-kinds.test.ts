@@ -27,6 +27,9 @@ function varsFor(baseUrl: string): NoticeVars {
     startsAt: 'Saturday 2 May 2026 at 10:00',
     place: 'Workshop, laminating bay',
     sessionId: '0b6a3c1e-5d2f-4e8a-9c7b-1a2b3c4d5e6f',
+    stationName: 'Laminating bench A',
+    startsText: '14 Mar 2026, 10:00',
+    endsText: '14 Mar 2026, 12:00',
   }
 }
 
