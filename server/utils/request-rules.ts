@@ -39,6 +39,8 @@ export const REQUEST_RULES: Record<string, Partial<RequestRule>> = {
   'POST /api/notices/opt-out': { mediaTypes: ['application/json', 'application/x-www-form-urlencoded'], crossSite: true },
   // A photo (10 MB at most, checked again by busboy while it streams) with its few short fields.
   'POST /api/photos': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
+  // The payment service's signed events: from its own servers, JSON, read raw for the signature check.
+  'POST /api/dues/webhook': { crossSite: true },
 }
 
 function matches(pattern: string, path: string): boolean {

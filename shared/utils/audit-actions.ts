@@ -35,6 +35,10 @@ export const AUDIT_ACTIONS = [
   'vessel.release',
   'vessel.retire',
   'policy.vessels',
+  'dues.offline_payment',
+  'dues.refund',
+  'dues.member_plan',
+  'dues.plan_edit',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -62,6 +66,10 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'vessel.release': { label: 'Released a vessel', meaning: 'The safety officer released a quarantined vessel; it needs a new proof test before any fill.' },
   'vessel.retire': { label: 'Retired a vessel', meaning: 'Its owner or the safety officer took a vessel out of use for good.' },
   'policy.vessels': { label: 'Changed the vessel policy', meaning: 'The safety officer changed the proof margin, intervals, fill limits, cure wait, air tests or distance rule.' },
+  'dues.offline_payment': { label: 'Recorded a cash or transfer payment', meaning: 'An admin recorded dues paid in cash or by bank transfer; it renewed the membership like a card payment.' },
+  'dues.refund': { label: 'Refunded a payment', meaning: 'An admin refunded the latest dues payment in full; paid-through returned to the date that payment replaced.' },
+  'dues.member_plan': { label: 'Changed a member\'s dues plan', meaning: 'An admin chose the plan a member renews on.' },
+  'dues.plan_edit': { label: 'Changed a dues plan', meaning: 'An admin changed a plan\'s name, price, currency or period; payments already made keep theirs.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -82,6 +90,8 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   notice: 'An e-mail in the outbox',
   club: 'The club',
   vessel: 'A vessel',
+  payment: 'A dues payment',
+  dues_plan: 'A dues plan',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -3,7 +3,7 @@
  * pay and which plans they may choose. Pure functions; calendar dates are YYYY-MM-DD in the club's
  * time zone. The membership status itself comes only from `membershipStatus`.
  */
-import { addCalendarMonths } from './dates'
+import { addCalendarDays, addCalendarMonths } from './dates'
 import { isJunior, type MembershipStatus } from './membership-status'
 
 /**
@@ -15,6 +15,15 @@ import { isJunior, type MembershipStatus } from './membership-status'
 export function renewedPaidThrough(current: string | null, paidOn: string, periodMonths: number): string {
   const from = current && current > paidOn ? current : paidOn
   return addCalendarMonths(from, periodMonths)
+}
+
+/**
+ * The first day a payment made on `paidOn` pays for, when the membership was paid through `before`:
+ * the day after `before` for an early renewal, the payment's own date otherwise. (Receipts print
+ * "from … through the new paid-through date".)
+ */
+export function periodStartsOn(before: string | null, paidOn: string): string {
+  return before && before >= paidOn ? addCalendarDays(before, 1) : paidOn
 }
 
 /**

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { duesRefusals, paidThroughAfterRefund, planAudienceFor, renewedPaidThrough } from '#shared/utils/dues-renewal'
+import { duesRefusals, paidThroughAfterRefund, periodStartsOn, planAudienceFor, renewedPaidThrough } from '#shared/utils/dues-renewal'
 import { membershipStatus } from '#shared/utils/membership-status'
 
 describe('renewedPaidThrough', () => {
@@ -56,5 +56,16 @@ describe('who may pay', () => {
     [null, '2026-09-01', 'adult'],
   ])('born %s, paying on %s → %s plans', (birth, today, audience) => {
     expect(planAudienceFor(birth, today)).toBe(audience)
+  })
+})
+
+describe('periodStartsOn', () => {
+  it.each([
+    ['2026-09-30', '2026-09-01', '2026-10-01'], // early: the day after the old paid-through date
+    ['2026-09-01', '2026-09-01', '2026-09-02'],
+    ['2026-08-20', '2026-09-01', '2026-09-01'], // late: the payment's date
+    [null, '2026-09-01', '2026-09-01'],
+  ])('paid through %s, paid on %s → covers from %s', (before, paidOn, from) => {
+    expect(periodStartsOn(before, paidOn)).toBe(from)
   })
 })
