@@ -188,8 +188,8 @@ describe('the webhook', () => {
       await eventually(async () => (await paymentsOf(m.memberId))[0]?.status === 'paid', 30_000)
       expect(refusals).toBe(3)
       expect(await paidThroughOf(m.memberId)).toBe(plusMonths(clubDay(0), 12))
-      const [{ count }] = await sql<{ count: string }>(`SELECT count(*) FROM payment_events WHERE type = 'checkout.session.completed' AND payload->'data'->'object'->>'id' = $1`, [(await paymentsOf(m.memberId))[0]!.provider_checkout_id])
-      expect(Number(count)).toBe(1)
+      const [events] = await sql<{ count: string }>(`SELECT count(*) FROM payment_events WHERE type = 'checkout.session.completed' AND payload->'data'->'object'->>'id' = $1`, [(await paymentsOf(m.memberId))[0]!.provider_checkout_id])
+      expect(Number(events!.count)).toBe(1)
     }
     finally {
       await point(`${testEnv.baseUrl}/api/dues/webhook`)

@@ -33,7 +33,8 @@ export async function planId(code: string): Promise<string> {
 
 /** Starts a checkout as `who`; returns the API's answer. */
 export function startCheckout(who: Payer, plan: string) {
-  return api<{ url: string, paymentId: string }>('/api/dues/checkout', { as: who.cookie, body: { planId: plan } })
+  // A 200 carries { url, paymentId }; a 422 { data: { reasons } }.
+  return api('/api/dues/checkout', { as: who.cookie, body: { planId: plan } })
 }
 
 /** Types `number` on the fake's hosted page for checkout `url` (as a browser form would); returns status and location. */
