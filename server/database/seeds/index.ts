@@ -7,6 +7,7 @@ import { seedMembers } from './members'
 import { seedWaiver } from './waiver'
 import { seedVessels } from './vessels'
 import { seedCouponTests } from './coupons'
+import { seedDuesPayments } from './dues'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -18,6 +19,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedWaiver,
   seedVessels,
   seedCouponTests,
+  seedDuesPayments,
 ]
 
 /** Seeds the demo club in one transaction. */
