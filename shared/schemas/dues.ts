@@ -13,7 +13,7 @@ export const OfflinePaymentSchema = z.object({
   memberId: uuid,
   planId: uuid,
   method: z.enum(['cash', 'transfer'], { message: 'Choose cash or bank transfer' }),
-  amountMinor: z.coerce.number().int('Whole cents only').min(1, 'Enter the amount').max(100_000_000, 'Too large'),
+  amountMinor: z.number({ message: 'Enter the amount in cents' }).int('Whole cents only').min(1, 'Enter the amount').max(100_000_000, 'Too large'),
   paidOn: isoDate,
   reference: optionalText(120),
 })
@@ -32,9 +32,9 @@ export const MemberPlanSchema = z.object({ planId: uuid })
 /** The admin edits a dues plan: name, price in minor units, currency, period in months. */
 export const DuesPlanEditSchema = z.object({
   name: z.string().trim().min(1, 'Enter a name').max(80, 'At most 80 characters'),
-  priceMinor: z.coerce.number().int('Whole cents only').min(1, 'Enter a price').max(100_000_000, 'Too large'),
+  priceMinor: z.number({ message: 'Enter the price in cents' }).int('Whole cents only').min(1, 'Enter a price').max(100_000_000, 'Too large'),
   currency: z.string().trim().toUpperCase().regex(/^[A-Z]{3}$/, 'A three-letter currency code (EUR, USD …)'),
-  periodMonths: z.coerce.number().int().min(1, 'At least 1 month').max(36, 'At most 36 months'),
+  periodMonths: z.number({ message: 'Enter the months' }).int().min(1, 'At least 1 month').max(36, 'At most 36 months'),
 })
 export type DuesPlanEdit = z.infer<typeof DuesPlanEditSchema>
 

@@ -13,13 +13,20 @@ export type EventOutcome = 'applied' | 'ignored' | 'held' | 'replay'
  * a 400 and nothing else happens.
  */
 export function verifiedEvent(rawBody: Buffer | string | undefined, signature: string | undefined): Stripe.Event {
+  let event: Stripe.Event
   try {
-    return usePayments().webhooks.constructEvent(rawBody ?? '', signature ?? '', webhookSecret())
+    event = usePayments().webhooks.constructEvent(rawBody ?? '', signature ?? '', webhookSecret())
   }
   catch (error) {
     if ((error as { statusCode?: number }).statusCode === 503) throw error
     throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'The signature of this event does not match' })
   }
+  // Signed but not an event (only a holder of the secret could send it): refused all the same.
+  const shaped = event as Partial<Stripe.Event> | null
+  if (!shaped || typeof shaped.id !== 'string' || typeof shaped.type !== 'string' || typeof shaped.data?.object !== 'object' || typeof shaped.created !== 'number') {
+    throw createError({ statusCode: 400, statusMessage: 'Bad Request', message: 'Not an event' })
+  }
+  return event
 }
 
 const idOf = (v: string | { id: string } | null | undefined) => (typeof v === 'string' ? v : v?.id ?? null)

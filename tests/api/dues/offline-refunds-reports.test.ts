@@ -205,3 +205,23 @@ describe('dues reminders', () => {
     expect(mail.text).toContain('tier')
   })
 })
+
+describe('plans', () => {
+  it('the admin sets the plan a member renews on and edits a plan; both audited; a member may not', async () => {
+    const m = await payer()
+    const student = await planId('student')
+    expect((await api(`/api/dues/members/${m.memberId}/plan`, { as: m.cookie, method: 'PUT', body: { planId: student } })).status).toBe(403)
+    expect((await api(`/api/dues/members/${m.memberId}/plan`, { as: 'admin', method: 'PUT', body: { planId: student } })).status).toBe(200)
+    expect((await api('/api/dues/renewal', { as: m.cookie })).body.currentPlanId).toBe(student)
+    const [audit] = await sql<{ action: string }>(`SELECT action FROM audit_events WHERE subject_id = $1 AND action = 'dues.member_plan'`, [m.memberId])
+    expect(audit).toBeDefined()
+
+    const plans = (await api('/api/dues/plans', { as: 'admin' })).body.items as { id: string, code: string, name: string, priceMinor: number, currency: string, periodMonths: number }[]
+    const s = plans.find(p => p.code === 'student')!
+    const edited = await api(`/api/dues/plans/${s.id}`, { as: 'admin', method: 'PUT', body: { name: s.name, priceMinor: s.priceMinor + 100, currency: 'eur', periodMonths: s.periodMonths } })
+    expect(edited.status).toBe(200)
+    expect(edited.body.items.find((p: { code: string }) => p.code === 'student').priceMinor).toBe(s.priceMinor + 100)
+    await api(`/api/dues/plans/${s.id}`, { as: 'admin', method: 'PUT', body: { name: s.name, priceMinor: s.priceMinor, currency: s.currency, periodMonths: s.periodMonths } })
+    expect((await api(`/api/dues/plans/${s.id}`, { as: 'admin', method: 'PUT', body: { name: 'Adult', priceMinor: 100, currency: 'EUR', periodMonths: 12 } })).status).toBe(409)
+  })
+})

@@ -141,7 +141,7 @@ describe('the webhook', () => {
     await startCheckout(m, await planId('adult'))
     const [p] = await paymentsOf(m.memberId)
     const intent = p!.provider_payment_intent_id!
-    const refund = event('refund.updated', { id: 're_outoforder1', object: 'refund', status: 'succeeded', payment_intent: intent, amount: 6000, currency: 'eur' })
+    const refund = event('refund.updated', { id: `re_${m.memberId.slice(0, 8)}`, object: 'refund', status: 'succeeded', payment_intent: intent, amount: 6000, currency: 'eur' })
     expect((await deliver(refund)).body.outcome).toBe('held')
     expect(await paidThroughOf(m.memberId)).toBe(clubDay(10))
     const completed = event('checkout.session.completed', { id: p!.provider_checkout_id, object: 'checkout.session', payment_status: 'paid', status: 'complete', payment_intent: intent })
@@ -151,6 +151,18 @@ describe('the webhook', () => {
     expect((await paymentsOf(m.memberId))[0]).toEqual(expect.objectContaining({ status: 'refunded', paid_through_after: plusMonths(clubDay(10), 12) }))
     const [row] = await sql<{ status: string }>('SELECT status FROM payment_events WHERE id = $1', [refund.id])
     expect(row!.status).toBe('applied')
+  })
+
+  it.each([
+    ['malformed JSON', '{"id": '],
+    ['a JSON array', '[1, 2, 3]'],
+    ['an empty body', ''],
+  ])('%s, even signed, is refused with 400 and stores nothing', async (_l, body) => {
+    const before = await sql('SELECT count(*) FROM payment_events')
+    const res = await fetch(new URL('/api/dues/webhook', testEnv.baseUrl), { method: 'POST', body, headers: { 'content-type': 'application/json', 'stripe-signature': signatureHeader(body) } })
+    expect(res.status).toBeGreaterThanOrEqual(400)
+    expect(res.status).toBeLessThan(500)
+    expect(await sql('SELECT count(*) FROM payment_events')).toEqual(before)
   })
 
   it('other event types are acknowledged and ignored', async () => {
