@@ -225,3 +225,18 @@ describe('plans', () => {
     expect((await api(`/api/dues/plans/${s.id}`, { as: 'admin', method: 'PUT', body: { name: 'Adult', priceMinor: 100, currency: 'EUR', periodMonths: 12 } })).status).toBe(409)
   })
 })
+
+describe('demo data', () => {
+  it('the demo club has payment histories by card, cash and transfer, members in grace and lapsed with theirs, and one refund', async () => {
+    const rows = await sql<{ method: string, status: string, n: string }>(`SELECT p.method, p.status, count(*) AS n FROM payments p JOIN clubs c ON c.id = p.club_id
+      JOIN memberships m ON m.id = p.membership_id JOIN users u ON u.id = m.user_id
+      WHERE c.tag_prefix = 'SRG' AND u.email LIKE '%hoopwise.example' AND u.email NOT LIKE '%test.hoopwise.example' GROUP BY 1, 2`)
+    for (const method of ['card', 'cash', 'transfer']) expect(rows.some(r => r.method === method && r.status === 'paid')).toBe(true)
+    expect(rows.filter(r => r.status === 'refunded').reduce((n, r) => n + Number(r.n), 0)).toBe(1)
+    const overdue = (await api('/api/dues/overdue', { as: 'admin' })).body.items as { id: string, status: string }[]
+    const withPayments = await sql<{ id: string }>(`SELECT DISTINCT membership_id AS id FROM payments`)
+    const paid = new Set(withPayments.map(r => r.id))
+    expect(overdue.some(i => i.status === 'grace' && paid.has(i.id))).toBe(true)
+    expect(overdue.some(i => i.status === 'lapsed' && paid.has(i.id))).toBe(true)
+  })
+})

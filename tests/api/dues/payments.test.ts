@@ -70,6 +70,21 @@ describe('card renewal through the SDK and the payment fake', () => {
     await eventually(async () => (await paymentsOf(m.memberId))[0]?.status === 'paid')
   })
 
+  it('a checkout that expires unpaid is marked so and changes nothing', async () => {
+    const m = await payer({ paidDays: -60 })
+    const started = await startCheckout(m, await planId('adult'))
+    const [p] = await paymentsOf(m.memberId)
+    // Expired at the payment service (as after 24 hours), through its API with the secret key.
+    const res = await fetch(`${testEnv.paymentFakeUrl}/v1/checkout/sessions/${p!.provider_checkout_id}/expire`, { method: 'POST', headers: { authorization: `Bearer ${testEnv.paymentKeys.secretKey}` } })
+    expect(res.status).toBe(200)
+    await eventually(async () => (await api(`/api/dues/checkout/${started.body.paymentId}`, { as: m.cookie })).body.status === 'expired')
+    expect(await paidThroughOf(m.memberId)).toBe(clubDay(-60))
+    // The fake checks the key like the real service.
+    const wrongKey = await fetch(`${testEnv.paymentFakeUrl}/v1/checkout/sessions/${p!.provider_checkout_id}`, { headers: { authorization: 'Bearer sk_test_wrong' } })
+    expect(wrongKey.status).toBe(401)
+    expect((await wrongKey.json()).error.type).toBe('invalid_request_error')
+  })
+
   it('a number failing the Luhn check is refused on the page and goes nowhere', async () => {
     const m = await payer({ paidDays: -60 })
     const started = await startCheckout(m, await planId('adult'))
