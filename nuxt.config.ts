@@ -61,6 +61,13 @@ export default defineNuxtConfig({
     passwordHashMaxWaiting: 64,
     // Where uploaded photos are kept (NUXT_UPLOADS_DIR), outside the web root; relative to the working directory.
     uploadsDir: '.local/uploads',
+    // The card-payment service (dues): the secret key and the webhook endpoint's secret; host, port and
+    // protocol only to point the SDK at the local payment fake (empty: the real service).
+    paymentsSecretKey: '',
+    paymentsWebhookSecret: '',
+    paymentsApiHost: '',
+    paymentsApiPort: '',
+    paymentsApiProtocol: '',
   },
   compatibilityDate: '2025-07-15',
   nitro: {

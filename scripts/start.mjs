@@ -4,14 +4,14 @@
 // migrates, seeds the demo club on the private cluster only, then serves Hoopwise. Ctrl-C stops all.
 import { spawnSync } from 'node:child_process'
 import { join } from 'node:path'
-import { ROOT, DEV, loadDotEnv, ensureDir, ensureDependencies } from './lib/config.mjs'
+import { ROOT, DEV, PAYMENT_FAKE_KEYS, loadDotEnv, ensureDir, ensureDependencies } from './lib/config.mjs'
 
 const dev = process.argv.includes('--dev')
 
 ensureDependencies()
 
 const { startPostgres } = await import('./lib/postgres.mjs')
-const { startMailCatcher, startProcess, waitForHttp } = await import('./lib/processes.mjs')
+const { startMailCatcher, startPaymentFake, startProcess, waitForHttp } = await import('./lib/processes.mjs')
 const { setUpDatabase } = await import('./lib/setup.mjs')
 
 const fileEnv = loadDotEnv()
@@ -19,6 +19,8 @@ const fileEnv = loadDotEnv()
 const setupEnv = { ...fileEnv, ...process.env }
 const publicUrl = process.env.NUXT_PUBLIC_URL ?? fileEnv.NUXT_PUBLIC_URL ?? `http://localhost:${DEV.appPort}`
 const useRealSmtp = Boolean(process.env.NUXT_SMTP_HOST ?? fileEnv.NUXT_SMTP_HOST)
+// Real payment keys in the environment: the SDK talks to the real service and no fake starts.
+const useRealPayments = Boolean(process.env.NUXT_PAYMENTS_SECRET_KEY ?? fileEnv.NUXT_PAYMENTS_SECRET_KEY)
 
 const stoppers = []
 let stopping = false
@@ -55,6 +57,12 @@ try {
     mailNote = `mail catcher: http://127.0.0.1:${DEV.mailWebPort}`
   }
 
+  if (!useRealPayments) {
+    const payments = await startPaymentFake({ port: DEV.paymentFakePort, ...PAYMENT_FAKE_KEYS, webhookUrl: `http://127.0.0.1:${DEV.appPort}/api/dues/webhook` })
+    stoppers.push(() => payments.stop())
+    mailNote += `; test payment page: http://127.0.0.1:${DEV.paymentFakePort}`
+  }
+
   const { databaseUrl, seeded } = await setUpDatabase({ env: setupEnv, cluster, publicUrl })
 
   const env = {
@@ -64,6 +72,15 @@ try {
     NUXT_DATABASE_OWNER_URL: '',
     NUXT_PUBLIC_URL: publicUrl,
     ...(useRealSmtp ? {} : { NUXT_SMTP_HOST: '127.0.0.1', NUXT_SMTP_PORT: String(DEV.smtpPort) }),
+    ...(useRealPayments
+      ? {}
+      : {
+          NUXT_PAYMENTS_SECRET_KEY: PAYMENT_FAKE_KEYS.secretKey,
+          NUXT_PAYMENTS_WEBHOOK_SECRET: PAYMENT_FAKE_KEYS.webhookSecret,
+          NUXT_PAYMENTS_API_HOST: '127.0.0.1',
+          NUXT_PAYMENTS_API_PORT: String(DEV.paymentFakePort),
+          NUXT_PAYMENTS_API_PROTOCOL: 'http',
+        }),
     PORT: String(DEV.appPort),
   }
   let server

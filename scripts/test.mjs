@@ -5,7 +5,7 @@ import { execFileSync, spawnSync } from 'node:child_process'
 import { existsSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { userInfo } from 'node:os'
-import { ROOT, TEST, ensureDir, ensureDependencies } from './lib/config.mjs'
+import { ROOT, TEST, PAYMENT_FAKE_KEYS, ensureDir, ensureDependencies } from './lib/config.mjs'
 
 const CHROMIUM = '/usr/bin/chromium'
 // `npm test -- api` runs one stage after the set-up; `npm test -- api tests/api/sessions.test.ts` also
@@ -32,7 +32,7 @@ if (!existsSync(CHROMIUM)) {
 }
 
 const { startPostgres, recreateDatabase, APP_ROLE } = await import('./lib/postgres.mjs')
-const { startMailCatcher } = await import('./lib/processes.mjs')
+const { startMailCatcher, startPaymentFake } = await import('./lib/processes.mjs')
 const { prepareDatabase } = await import('./lib/database.mjs')
 
 const stoppers = []
@@ -79,6 +79,8 @@ try {
   await prepareDatabase({ databaseUrl: appDatabaseUrl, ownerUrl: databaseUrl, publicUrl: `http://127.0.0.1:${TEST.appPort}` })
   const mail = await startMailCatcher({ smtpPort: TEST.smtpPort, webPort: TEST.mailWebPort, mailDir: TEST.mailDir })
   stoppers.push(() => mail.stop())
+  const payments = await startPaymentFake({ port: TEST.paymentFakePort, ...PAYMENT_FAKE_KEYS, webhookUrl: `http://127.0.0.1:${TEST.appPort}/api/dues/webhook` })
+  stoppers.push(() => payments.stop())
 
   for (const [name, stage] of Object.entries(stages)) {
     if (only.length && !only.includes(name)) continue

@@ -54,6 +54,7 @@ export const DEV = {
   mailWebPort: Number(process.env.HOOPWISE_MAIL_WEB_PORT ?? 1080),
   mailDir: join(LOCAL, 'dev', 'mail'),
   appPort: Number(process.env.PORT ?? 3000),
+  paymentFakePort: Number(process.env.HOOPWISE_PAYMENT_FAKE_PORT ?? 12111),
 }
 
 /** The test set-up: another cluster, database and ports, so tests never touch demo data. */
@@ -69,7 +70,11 @@ export const TEST = {
   appPort: 3100 + offset,
   /** Ports from here up to +19 are for tests that start services of their own. */
   spareBase: 3110 + offset,
+  paymentFakePort: 12121 + offset,
 }
+
+/** The payment fake's keys (a test double's, worthless anywhere else) for the demo and the tests. */
+export const PAYMENT_FAKE_KEYS = { secretKey: 'sk_test_hoopwise_fake', webhookSecret: 'whsec_hoopwise_fake' }
 
 /** jiti's options for loading server code from the scripts: the server's `#shared` alias (Nuxt's) too. */
 export const JITI_OPTIONS = { alias: { '#shared': join(ROOT, 'shared') } }

@@ -57,6 +57,20 @@ export async function startMailCatcher({ smtpPort, webPort, mailDir, quiet = tru
   return child
 }
 
+/**
+ * Starts the payment fake (scripts/payment-fake, a test double of the card-payment service) on
+ * 127.0.0.1:`port`, delivering its webhooks to `webhookUrl`; waits until it answers.
+ */
+export async function startPaymentFake({ port, secretKey, webhookSecret, webhookUrl, quiet = true }) {
+  const child = startProcess(process.execPath, [join(projectRoot, 'scripts/payment-fake/server.mjs')], {
+    env: { PAYMENT_FAKE_PORT: String(port), PAYMENT_FAKE_SECRET_KEY: secretKey, PAYMENT_FAKE_WEBHOOK_SECRET: webhookSecret, PAYMENT_FAKE_WEBHOOK_URL: webhookUrl },
+    name: 'payment fake',
+    quiet,
+  })
+  await waitForHttp(`http://127.0.0.1:${port}/health`, 30_000, true)
+  return child
+}
+
 /** Starts the built production server (.output) on `port` with `env`; waits until /api/health answers. */
 export async function startAppServer({ root, port, env, quiet = true }) {
   const child = startProcess(process.execPath, [join(root, '.output/server/index.mjs')], {

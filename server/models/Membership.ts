@@ -23,6 +23,8 @@ export class Membership extends Model {
   declare emergencyContactPhone: string | null
   declare unitPreference: 'bar' | 'psi'
   declare noticeOptOuts: string[]
+  /** The dues plan the member renews on (null: chosen at the first payment). */
+  declare duesPlanId: string | null
   declare createdAt: Date
   declare updatedAt: Date
   declare user?: User
@@ -48,6 +50,7 @@ export class Membership extends Model {
       emergencyContactPhone: { type: DataTypes.TEXT, allowNull: true },
       unitPreference: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'bar' },
       noticeOptOuts: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
+      duesPlanId: { type: DataTypes.UUID, allowNull: true },
     }, { sequelize, modelName: 'membership', tableName: 'memberships', underscored: true })
   }
 }

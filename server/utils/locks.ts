@@ -6,11 +6,12 @@ import { useDb } from './db'
 // them in this order only, so two writes that touch the same rows wait for each other instead of
 // deadlocking (mapDbError still answers 409 should the database report one):
 //
+//   0. a payment of the payment service, by its id            lockProviderPayment (webhook events only)
 //   1. memberships, in id order when there are several      lockMemberships
 //   2. the account's users row                               lockUser
-//   3. the club's vessel counter, then a vessel               takeVesselNumber; lockVessel when it lands
-//   4. training session, or booking                          lockTrainingSession; (bookings, when they land)
-//   5. payment, then the receipt counter                     (dues and payments, when they land)
+//   3. the club's vessel counter, then a vessel               takeVesselNumber, lockVessel
+//   4. training session, or booking                          lockTrainingSession, lockBooking
+//   5. payment, then the receipt counter                     lockPayment, takeReceiptNumber
 //   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
 //                                                            updated in place after 1–2
 //
@@ -93,4 +94,34 @@ export async function lockBooking(clubId: string, id: string, transaction: Trans
     'SELECT membership_id, station_id, starts_at, ends_at, cancelled_at FROM bookings WHERE id = :id AND club_id = :clubId FOR UPDATE',
     { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
   return row
+}
+
+/**
+ * Takes a transaction-scoped advisory lock on the payment service's payment `providerPaymentId` (step
+ * 0, webhook events only): a completion and a refund of the same payment, arriving at once, are
+ * applied one after the other, so a refund that comes first is surely seen, held, by the completion.
+ */
+export async function lockProviderPayment(providerPaymentId: string, transaction: Transaction): Promise<void> {
+  await useDb().query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `payment:${providerPaymentId}` }, transaction })
+}
+
+/** Locks payment `id` (of club `clubId` when given) FOR UPDATE (step 5) and returns whether it exists. */
+export async function lockPayment(id: string, transaction: Transaction, clubId?: string): Promise<boolean> {
+  const rows = await useDb().query<{ id: string }>(
+    `SELECT id FROM payments WHERE id = :id ${clubId ? 'AND club_id = :clubId' : ''} FOR UPDATE`,
+    { replacements: { id, clubId: clubId ?? null }, type: QueryTypes.SELECT, transaction })
+  return rows.length > 0
+}
+
+/**
+ * Takes club `clubId`'s next receipt number inside `transaction` (step 5, after the payment): raised
+ * under the club row's lock, held until commit, so receipts number one after the other with no gap
+ * from a rolled-back payment.
+ */
+export async function takeReceiptNumber(clubId: string, transaction: Transaction): Promise<number> {
+  const [row] = await useDb().query<{ number: number }>(
+    'UPDATE clubs SET next_receipt_number = next_receipt_number + 1 WHERE id = :clubId RETURNING next_receipt_number - 1 AS number',
+    { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
+  if (!row) throw new Error(`no club ${clubId}`)
+  return row.number
 }

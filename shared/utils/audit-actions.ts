@@ -43,6 +43,10 @@ export const AUDIT_ACTIONS = [
   'station.create',
   'station.update',
   'booking.cancel',
+  'dues.offline_payment',
+  'dues.refund',
+  'dues.member_plan',
+  'dues.plan_edit',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -78,6 +82,10 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'station.create': { label: 'Added a workshop station', meaning: 'An officer added a bench, cure-rack slot, booth or rig with its courses, hours and limits.' },
   'station.update': { label: 'Changed a workshop station', meaning: 'An officer changed a station\'s name, required courses, opening hours, longest booking or adults-only rule.' },
   'booking.cancel': { label: 'Cancelled a member\'s booking', meaning: 'An officer cancelled another member\'s workshop booking, with the reason; the member was e-mailed.' },
+  'dues.offline_payment': { label: 'Recorded a cash or transfer payment', meaning: 'An admin recorded dues paid in cash or by bank transfer; it renewed the membership like a card payment.' },
+  'dues.refund': { label: 'Refunded a payment', meaning: 'An admin refunded the latest dues payment in full; paid-through returned to the date that payment replaced.' },
+  'dues.member_plan': { label: 'Changed a member\'s dues plan', meaning: 'An admin chose the plan a member renews on.' },
+  'dues.plan_edit': { label: 'Changed a dues plan', meaning: 'An admin changed a plan\'s name, price, currency or period; payments already made keep theirs.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -103,6 +111,8 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   training_record: 'A training record',
   station: 'A workshop station',
   booking: 'A workshop booking',
+  payment: 'A dues payment',
+  dues_plan: 'A dues plan',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

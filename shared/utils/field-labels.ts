@@ -75,7 +75,18 @@ export const FIELD_LABELS: Record<string, string> = {
   adultsOnly: 'Adults only',
   position: 'Order in the list',
   stationId: 'Station',
-  membershipId: 'Booked by (member)',
+  // Dues
+  membershipId: 'Member',
+  method: 'Payment method',
+  amountMinor: 'Amount (cents)',
+  currency: 'Currency',
+  plan: 'Dues plan',
+  planId: 'Dues plan',
+  paidOn: 'Paid on',
+  receipt: 'Receipt number',
+  appliedBy: 'Refund applied by',
+  priceMinor: 'Price (cents)',
+  periodMonths: 'Period (months)',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

@@ -117,6 +117,22 @@ const MATRIX: Record<string, Row> = {
   'POST /api/me/calendar-feed': signedIn(400), // not confirmed: the link is not renewed
   'DELETE /api/me/calendar-feed': signedIn(200),
   'GET /api/calendar/[token]': open(404), // no session, only the private link's token; an unknown one
+  'GET /api/dues/renewal': signedIn(200),
+  'GET /api/dues/plans': signedIn(200),
+  'PUT /api/dues/plans/[id]': only(400, 'admin'),
+  'POST /api/dues/checkout': signedIn(400), // every member renews their own
+  'GET /api/dues/checkout/[id]': signedIn(404), // [id] is a membership id here: no such payment of mine
+  'POST /api/dues/webhook': open(400), // the payment service's events: no signature
+  'GET /api/dues/payments': only(200, 'admin'),
+  'POST /api/dues/payments': only(400, 'admin'),
+  'GET /api/dues/payments/export': only(200, 'admin'),
+  'POST /api/dues/payments/[id]/refund': only(400, 'admin'),
+  'GET /api/dues/totals': only(200, 'admin'),
+  'GET /api/dues/overdue': only(200, 'admin'),
+  'GET /api/dues/receipts': signedIn(200), // a member's own
+  'GET /api/dues/receipts/[id]': signedIn(404), // [id] is a membership id here: no such receipt
+  'GET /api/dues/receipts/[id]/pdf': signedIn(404),
+  'PUT /api/dues/members/[id]/plan': only(400, 'admin'),
 }
 
 let subjectId = ''

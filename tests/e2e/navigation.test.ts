@@ -7,7 +7,7 @@ import { makeMember } from '../support/factories'
 
 await setupBrowser()
 
-const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members', 'nav-audit', 'nav-outbox']
+const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues']
 
 async function visibleNavItems(page: Page): Promise<string[]> {
   const found: string[] = []
@@ -20,7 +20,7 @@ describe('navigation per role', () => {
     ['member', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator']],
     ['instructor', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members']],
     ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members', 'nav-audit']],
-    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members', 'nav-audit', 'nav-outbox']],
+    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues']],
   ])('the demo %s account signs in through the form and sees exactly its navigation', async (role, expected) => {
     const page = await createPage('/login')
     try {

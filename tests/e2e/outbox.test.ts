@@ -9,7 +9,8 @@ await setupBrowser()
 describe('the outbox', () => {
   it('shows an admin the notices and runs the queue on demand', async () => {
     // Something for the outbox to show: a member whose dues run out soon, reminded by a run.
-    const member = await makeMember({ paidDays: 6 })
+    // (Ten days: only the 30-day reminder is due, the week-before one not yet.)
+    const member = await makeMember({ paidDays: 10 })
     expect((await api('/api/outbox/run', { method: 'POST', as: 'admin' })).status).toBe(200)
     const later = await makeMember({ paidDays: 9 })
     const [reminder] = await noticesOf(member.memberId)

@@ -1,6 +1,6 @@
 // The services scripts/test.mjs starts for the API and browser suites, read from its environment.
 import { join } from 'node:path'
-import { LOCAL, TEST } from '../../scripts/lib/config.mjs'
+import { LOCAL, PAYMENT_FAKE_KEYS, TEST } from '../../scripts/lib/config.mjs'
 import { APP_ROLE } from '../../scripts/lib/postgres.mjs'
 
 export const testEnv = {
@@ -16,6 +16,8 @@ export const testEnv = {
   sessionPassword: 'test-session-password-that-is-at-least-32-chars',
   /** The test server's uploads folder (photos), inside the tests' own .local folder. */
   uploadsDir: join(LOCAL, 'test', 'uploads'),
+  paymentFakeUrl: `http://127.0.0.1:${TEST.paymentFakePort}`,
+  paymentKeys: PAYMENT_FAKE_KEYS,
 }
 
 /** The environment every test server gets; isolated servers override ports and services. */
@@ -31,6 +33,12 @@ export function serverEnv(overrides: Record<string, string> = {}): Record<string
     NUXT_SIGNUP_MAX_PER_ADDRESS: '1000',
     NUXT_RESET_REQUEST_MAX_PER_ADDRESS: '1000',
     NUXT_UPLOADS_DIR: testEnv.uploadsDir,
+    // The payment SDK talks to the payment fake scripts/test.mjs starts.
+    NUXT_PAYMENTS_SECRET_KEY: PAYMENT_FAKE_KEYS.secretKey,
+    NUXT_PAYMENTS_WEBHOOK_SECRET: PAYMENT_FAKE_KEYS.webhookSecret,
+    NUXT_PAYMENTS_API_HOST: '127.0.0.1',
+    NUXT_PAYMENTS_API_PORT: String(TEST.paymentFakePort),
+    NUXT_PAYMENTS_API_PROTOCOL: 'http',
     ...overrides,
   }
 }

@@ -14,6 +14,7 @@ import * as m0015 from './0015-proof-tests'
 import * as m0016 from './0016-coupon-tests'
 import * as m0017 from './0017-training'
 import * as m0018 from './0018-bookings'
+import * as m0019 from './0019-dues'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -31,4 +32,5 @@ export const migrations = [
   { name: '0016-coupon-tests', ...m0016 },
   { name: '0017-training', ...m0017 },
   { name: '0018-bookings', ...m0018 },
+  { name: '0019-dues', ...m0019 },
 ]

@@ -9,6 +9,7 @@ import { seedVessels } from './vessels'
 import { seedCouponTests } from './coupons'
 import { seedTraining } from './training'
 import { seedStations } from './stations'
+import { seedDuesPayments } from './dues'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -22,6 +23,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedCouponTests,
   seedTraining,
   seedStations,
+  seedDuesPayments,
 ]
 
 /** Seeds the demo club in one transaction. */

@@ -30,6 +30,9 @@ export interface NoticeKind {
   render: (vars: NoticeVars) => RenderedNotice
 }
 
+// Every dues e-mail says what paid dues do not do.
+const DUES_FILL_NOTE = 'Paid dues keep your membership; they do not by themselves allow a fill. Filling also takes your pressure tier, current courses, the current waiver accepted and a vessel that passes its checks, and the club\'s rules on the day.'
+
 function notice(subject: string, lines: string[], action?: { label: string, url?: string }): RenderedNotice {
   const act = action?.url ? { label: action.label, url: action.url } : undefined
   const text = [...lines, ...(act ? ['', `${act.label}: ${act.url}`] : [])].join('\n')
@@ -110,9 +113,61 @@ export const NOTICE_KINDS = {
     description: 'A reminder 30 days before your dues run out.',
     render: v => notice(`Your ${v.clubName} dues run out on ${longDate(v.paidThrough)}`, [
       `Hello ${v.memberName},`,
-      `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep your membership in good standing without a gap.`,
-      'Paid dues keep your membership; they do not by themselves allow a fill. Filling also takes your training and tier, a vessel in service and the club\'s rules on the day.',
-    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+      `Your membership is paid through ${longDate(v.paidThrough)}. Renew before then to keep your membership in good standing without a gap; renewing early loses no days.`,
+      DUES_FILL_NOTE,
+    ], { label: 'Renew my membership', url: `${v.baseUrl}/dues/renew` }),
+  },
+  dues_reminder_week: {
+    optional: true,
+    label: 'Dues renewal reminder, a week before',
+    description: 'A reminder 7 days before your dues run out.',
+    render: v => notice(`A week left: your ${v.clubName} dues run out on ${longDate(v.paidThrough)}`, [
+      `Hello ${v.memberName},`,
+      `Your membership is paid through ${longDate(v.paidThrough)}, a week from now. Renew now to keep training and booking without a gap; renewing early loses no days.`,
+      DUES_FILL_NOTE,
+    ], { label: 'Renew my membership', url: `${v.baseUrl}/dues/renew` }),
+  },
+  dues_grace: {
+    optional: true,
+    label: 'Dues ran out (grace period)',
+    description: 'Sent on the first day after your dues ran out.',
+    render: v => notice(`Your ${v.clubName} dues ran out: you are in the grace period`, [
+      `Hello ${v.memberName},`,
+      `Your dues were paid through ${longDate(v.paidThrough)}. Until ${longDate(v.graceEnds)} you can still train, but not fill or book. Renew to be an active member again; the new year runs from the day you pay.`,
+      DUES_FILL_NOTE,
+    ], { label: 'Renew my membership', url: `${v.baseUrl}/dues/renew` }),
+  },
+  dues_lapsed: {
+    optional: true,
+    label: 'Membership lapsed',
+    description: 'Sent on the day your membership lapses after the grace period.',
+    render: v => notice(`Your ${v.clubName} membership has lapsed`, [
+      `Hello ${v.memberName},`,
+      `Your dues were paid through ${longDate(v.paidThrough)} and the grace period ended on ${longDate(v.graceEnds)}, so your membership has lapsed: no training, booking or fills until you renew. Paying again brings you back at once.`,
+      DUES_FILL_NOTE,
+    ], { label: 'Renew my membership', url: `${v.baseUrl}/dues/renew` }),
+  },
+  payment_receipt: {
+    optional: false,
+    label: 'Dues receipt',
+    description: 'Your receipt, sent when a payment of your dues is received.',
+    render: v => notice(`${v.clubName} receipt ${v.receiptNumber ?? ''}: dues paid through ${longDate(v.paidThrough)}`, [
+      `Hello ${v.memberName},`,
+      `${v.clubName} received your dues: ${v.amount ?? ''} by ${String(v.method ?? '').toLowerCase()} on ${longDate(v.paidOn)} for the ${v.planName ?? ''} plan, covering ${longDate(v.periodFrom)} to ${longDate(v.paidThrough)}. Receipt number ${v.receiptNumber ?? ''}.`,
+      'You can download this receipt again at any time from "My standing".',
+      DUES_FILL_NOTE,
+    ], { label: 'See my receipt', url: `${v.baseUrl}/dues/receipts/${v.paymentId ?? ''}` }),
+  },
+  refund_confirmation: {
+    optional: false,
+    label: 'Dues refund',
+    description: 'Sent when a payment of your dues is refunded.',
+    render: v => notice(`${v.clubName}: your dues payment ${v.receiptNumber ?? ''} was refunded`, [
+      `Hello ${v.memberName},`,
+      `${v.clubName} refunded your dues payment ${v.receiptNumber ?? ''} (${v.amount ?? ''}, ${String(v.method ?? '').toLowerCase()}) in full. ${v.paidThrough ? `Your membership is now paid through ${longDate(v.paidThrough)}.` : 'Your membership now has no dues paid.'}`,
+      'To stay a member, renew when it suits you.',
+      DUES_FILL_NOTE,
+    ], { label: 'Renew my membership', url: `${v.baseUrl}/dues/renew` }),
   },
   // Safety: a vessel whose proof lapses is not filled; the owner hears 30 days ahead.
   proof_lapsing: {

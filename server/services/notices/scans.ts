@@ -1,50 +1,9 @@
-import { QueryTypes } from 'sequelize'
 import { Club } from '../../models'
-import { DUES_RENEWAL_NOTICE_DAYS } from '#shared/utils/membership-status'
-import { addCalendarDays } from '#shared/utils/dates'
-import { clubBaseUrl, clubToday } from '../clubs'
+import { clubBaseUrl } from '../clubs'
 import { enqueueNotice } from './notices'
 import { proofsLapsingSoon } from '../vessels'
 import { trainingRecordsExpiringSoon } from '../training'
-
-interface DueMember { id: string, paid_through: string, email: string, name: string }
-
-/**
- * Queues a `dues_reminder` for every member of `club` whose dues run out within the next 30 days
- * ("today" in the club's time zone), unless suspended, resigned or opted out. Due on paid-through
- * minus 30 days, so each member gets one per dues period however often the scan runs (the unique
- * key in the database settles concurrent scans). Returns how many notices it queued.
- */
-async function scanClubDuesReminders(club: Club, now: Date): Promise<number> {
-  const today = clubToday(club, now)
-  // Members already reminded for this period are left out here; ON CONFLICT covers a concurrent scan.
-  const due = await useDb().query<DueMember>(`
-    SELECT m.id, m.paid_through::text AS paid_through, u.email, u.name
-    FROM memberships m JOIN users u ON u.id = m.user_id
-    WHERE m.club_id = :clubId AND m.paid_through BETWEEN :today AND :until
-      AND m.suspended_at IS NULL AND m.resigned_at IS NULL
-      AND NOT ('dues_reminder' = ANY (m.notice_opt_outs))
-      AND NOT EXISTS (SELECT 1 FROM notices n WHERE n.membership_id = m.id AND n.kind = 'dues_reminder'
-        AND n.subject_key = m.paid_through::text AND n.due_on = m.paid_through - :days)
-    ORDER BY m.paid_through, m.id`, {
-    replacements: { clubId: club.id, today, until: addCalendarDays(today, DUES_RENEWAL_NOTICE_DAYS), days: DUES_RENEWAL_NOTICE_DAYS },
-    type: QueryTypes.SELECT,
-  })
-  let queued = 0
-  for (const m of due) {
-    const added = await enqueueNotice({
-      clubId: club.id,
-      membershipId: m.id,
-      kind: 'dues_reminder',
-      subjectKey: m.paid_through,
-      dueOn: addCalendarDays(m.paid_through, -DUES_RENEWAL_NOTICE_DAYS),
-      toEmail: m.email,
-      vars: { clubName: club.name, memberName: m.name, baseUrl: clubBaseUrl(club), paidThrough: m.paid_through },
-    })
-    if (added) queued += 1
-  }
-  return queued
-}
+import { scanDuesReminders } from '../dues'
 
 /**
  * Queues a `proof_lapsing` notice to the owner of every in-service vessel of `club` whose proof is
@@ -98,7 +57,7 @@ export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {})
   const clubs = await Club.findAll({ where: opts.clubId ? { id: opts.clubId } : {}, order: [['createdAt', 'ASC']] })
   let queued = 0
   for (const club of clubs) {
-    queued += await scanClubDuesReminders(club, opts.now ?? new Date())
+    queued += await scanDuesReminders(club, opts.now ?? new Date())
     queued += await scanClubProofLapsing(club, opts.now ?? new Date())
     queued += await scanClubTrainingExpiring(club, opts.now ?? new Date())
   }

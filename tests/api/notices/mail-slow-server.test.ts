@@ -104,7 +104,7 @@ beforeAll(async () => {
   const [club] = await sql<{ id: string }>(`SELECT id FROM clubs WHERE tag_prefix = 'SRG'`, [], databaseUrl)
   clubId = club!.id
   // Only this file's notices go to the slow server: the demo club's reminders are switched off.
-  await setMembership('all', { noticeOptOuts: ['dues_reminder'] }, databaseUrl)
+  await setMembership('all', { noticeOptOuts: ['dues_reminder', 'dues_reminder_week', 'dues_grace', 'dues_lapsed'] }, databaseUrl)
   await setNotice({ status: 'queued' }, { status: 'skipped' }, databaseUrl)
   // Nor is any demo vessel's proof about to lapse (a safety notice nobody can opt out of).
   await sql(`UPDATE vessels SET state = 'retired' WHERE state = 'in_service'`, [], databaseUrl)
