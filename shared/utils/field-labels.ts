@@ -81,7 +81,6 @@ export const FIELD_LABELS: Record<string, string> = {
   amountMinor: 'Amount (cents)',
   currency: 'Currency',
   plan: 'Dues plan',
-  planId: 'Dues plan',
   paidOn: 'Paid on',
   receipt: 'Receipt number',
   appliedBy: 'Refund applied by',

@@ -9,7 +9,7 @@ import { duesRefusals } from '#shared/utils/dues-renewal'
 import { membershipStatus } from '#shared/utils/membership-status'
 import type { DuesPlanEdit, OfflinePayment } from '#shared/schemas/dues'
 import { findPayment, queueReceipt, refundPayment, renew } from './ledger'
-import { findPlan, planOpenTo } from './plans'
+import { findPlan, listPlans, planOpenTo } from './plans'
 import { providerRefusal, usePayments } from './provider'
 
 /**
@@ -99,10 +99,12 @@ export async function refundLatestPayment(actor: Actor, paymentId: string, note:
 export async function setMemberPlan(actor: Actor, memberId: string, planId: string): Promise<{ planId: string }> {
   await inTransaction(async (transaction) => {
     const member = (await lockMemberships([memberId], transaction, actor.club.id)).get(memberId) ?? notFound('No such member')
-    const plan = await findPlan(actor.club.id, planId, transaction)
-    const before = member.duesPlanId
+    const plans = await listPlans(actor.club.id, transaction)
+    const plan = plans.find(p => p.id === planId) ?? notFound('No such dues plan')
+    const before = plans.find(p => p.id === member.duesPlanId)?.name ?? null
     await member.update({ duesPlanId: plan.id }, { transaction })
-    await recordAudit(actor, actor.club.id, { action: 'dues.member_plan', subjectType: 'membership', subjectId: memberId, before: { planId: before }, after: { planId: plan.id } }, transaction)
+    // The audit names the plans in words, as the audit page shows them.
+    await recordAudit(actor, actor.club.id, { action: 'dues.member_plan', subjectType: 'membership', subjectId: memberId, before: { plan: before }, after: { plan: plan.name } }, transaction)
   })
   return { planId }
 }
