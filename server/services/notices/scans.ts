@@ -1,5 +1,5 @@
 import { Club } from '../../models'
-import { clubBaseUrl } from '../clubs'
+import { clubBaseUrl, clubToday } from '../clubs'
 import { enqueueNotice } from './notices'
 import { proofsLapsingSoon } from '../vessels'
 import { trainingRecordsExpiringSoon } from '../training'
