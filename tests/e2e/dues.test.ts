@@ -1,5 +1,6 @@
 import { describe, it, expect } from 'vitest'
 import { setupBrowser, signedInPage, goTo } from '../support/browser'
+import { DEMO } from '../support/test-env'
 import { clubDay, makeMember } from '../support/factories'
 import { sql } from '../support/db'
 import { waitForMail } from '../support/mail'
@@ -63,5 +64,39 @@ describe('renewing dues through the payment page', () => {
     await page.waitForURL(url => url.pathname.startsWith('/dues/receipts/'))
     expect(await page.getByTestId('receipt-amount').textContent()).toContain('EUR 60.00')
     await page.close()
+  })
+
+  it('the admin changes the Student plan\'s price after confirming; the renewal page shows the new price', async () => {
+    const [plan] = await sql<{ id: string, price_minor: number, currency: string }>(
+      `SELECT p.id, p.price_minor, p.currency FROM dues_plans p JOIN clubs c ON c.id = p.club_id WHERE p.code = 'student' ORDER BY c.created_at LIMIT 1`)
+    const newPrice = plan!.price_minor + 1234
+    const words = `${plan!.currency} ${(newPrice / 100).toFixed(2)}`
+    const admin = await signedInPage(DEMO.admin, DEMO.password)
+    try {
+      await goTo(admin, '/dues/payments')
+      await admin.getByTestId('plan-edit-student').click()
+      await admin.getByTestId('plan-price-student').fill(String(newPrice))
+      await admin.getByTestId('plan-save-student').click()
+      await admin.getByTestId('plan-confirm-student').waitFor()
+      expect((await sql<{ p: number }>('SELECT price_minor AS p FROM dues_plans WHERE id = $1', [plan!.id]))[0]!.p).toBe(plan!.price_minor)
+      await admin.getByTestId('plan-confirm-student').click()
+      expect(await admin.getByTestId('plan-form-student').getByTestId('form-ok').textContent()).toContain(words)
+      expect(await admin.getByTestId('plan-row-student').textContent()).toContain(words)
+
+      const member = await makeMember()
+      const page = await signedInPage(member.email, member.password)
+      try {
+        await goTo(page, '/dues/renew')
+        const label = page.locator('label', { has: page.getByTestId('renew-plan-student') })
+        expect(await label.textContent()).toContain(words)
+      }
+      finally {
+        await page.close()
+      }
+    }
+    finally {
+      await admin.close()
+      await sql('UPDATE dues_plans SET price_minor = $2 WHERE id = $1', [plan!.id, plan!.price_minor])
+    }
   })
 })
