@@ -24,6 +24,9 @@ const SHOTS = [
   { who: 'member@hoopwise.example', path: '/vessels/SRG-0001', name: 'vessel' },
   { who: 'safety@hoopwise.example', path: '/vessels', name: 'vessels' },
   { who: 'member@hoopwise.example', path: '/coupons', name: 'coupons' },
+  { who: 'member@hoopwise.example', path: '/training', name: 'training' },
+  { who: 'member@hoopwise.example', path: '/workshop', name: 'workshop' },
+  { who: 'admin@hoopwise.example', path: '/dues/payments', name: 'payments' },
 ]
 
 mkdirSync(outDir, { recursive: true })
