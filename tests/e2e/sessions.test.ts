@@ -35,7 +35,8 @@ describe('my sessions on the profile page', () => {
       await ok.waitFor()
       expect(await ok.textContent()).toMatch(/Safari on iPhone is signed out/)
       expect((await api('/api/me/standing', { as: phone })).status).toBe(401)
-      expect(await page.getByTestId('session-other').count()).toBe(1)
+      // The message may show before the list has reloaded: wait for the list.
+      await expect.poll(() => page.getByTestId('session-other').count()).toBe(1)
 
       // "Everywhere else" asks first; the keyboard lands on the confirming button.
       await page.getByTestId('sessions-sign-out-others').focus()
