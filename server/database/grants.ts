@@ -1,7 +1,7 @@
 import { QueryTypes, type Sequelize } from 'sequelize'
 
 /** Tables the application may read and append to, never change or empty (their triggers refuse it too). */
-export const APPEND_ONLY_TABLES = ['audit_events', 'proof_tests', 'vessel_events']
+export const APPEND_ONLY_TABLES = ['audit_events', 'proof_tests', 'vessel_events', 'fills', 'tier_signoffs']
 /** Tables the application may not touch at all: the migrations' own bookkeeping. */
 export const MIGRATOR_ONLY_TABLES = ['schema_migrations']
 

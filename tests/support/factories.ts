@@ -489,3 +489,86 @@ export async function makeBooking(o: { stationId: string, memberId: string, star
   const bookingId = await insertRow('bookings', { clubId: s.club_id, stationId: o.stationId, membershipId: o.memberId, startsAt: o.startsAt, endsAt: o.endsAt, note: o.note ?? '' }, o.db)
   return { bookingId }
 }
+
+// ---------------------------------------------------------------------------------------------
+// Pressure tiers, fill stations, launch events and fills.
+
+/**
+ * Member `memberId` holds tier `rank` (0–4), signed on `signedOn` (default today) and held since
+ * `firstGrantedOn` (default the same day), expiring by the club's validity for the tier unless
+ * `expiresOn` is given. With `assessorId` a grant sign-off is written too. `suspended`/`revoked`
+ * mark it so, by `assessorId` (else the member's own id, which only a test would write).
+ */
+export async function makeTier(o: { memberId: string, rank: number, signedOn?: string, firstGrantedOn?: string, expiresOn?: string, assessorId?: string, initial?: boolean, suspended?: boolean, revoked?: boolean, db?: string }): Promise<{ memberTierId: string, expiresOn: string }> {
+  const [t] = await sql<{ club_id: string, validity_months: number }>(
+    `SELECT m.club_id, l.validity_months FROM memberships m JOIN tier_levels l ON l.club_id = m.club_id AND l.rank = $2 WHERE m.id = $1`,
+    [o.memberId, o.rank], o.db)
+  if (!t) throw new Error(`makeTier: no member ${o.memberId} or no tier ${o.rank} in their club`)
+  const signedOn = o.signedOn ?? clubDay(0)
+  const expiresOn = o.expiresOn ?? trainingExpiresOn(signedOn, t.validity_months)
+  const by = o.assessorId ?? o.memberId
+  const memberTierId = await insertRow('member_tiers', {
+    clubId: t.club_id, membershipId: o.memberId, rank: o.rank, firstGrantedOn: o.firstGrantedOn ?? signedOn, signedOn, expiresOn,
+    initial: o.initial ?? false,
+    ...(o.suspended ? { suspendedAt: NOW, suspensionReason: 'Suspended in a test', suspendedByMembershipId: by } : {}),
+    ...(o.revoked ? { revokedAt: NOW, revocationReason: 'Revoked in a test', revokedByMembershipId: by } : {}),
+  }, o.db)
+  if (o.assessorId || o.initial) {
+    await insertRow('tier_signoffs', {
+      clubId: t.club_id, memberTierId, membershipId: o.memberId, rank: o.rank, kind: o.initial ? 'initial' : 'grant', signedOn, expiresOn,
+      assessorMembershipId: o.initial ? null : o.assessorId, notes: '',
+    }, o.db)
+  }
+  return { memberTierId, expiresOn }
+}
+
+/**
+ * A fill station of club `clubId` (default the demo club) whose lowest rated part is rated
+ * `lowestPartRatingBar` (default 75 bar: 25 bar to launch at with the factor 3), its gauge calibrated
+ * `gaugeCalibratedOn` (default 30 days ago) every `gaugeIntervalMonths` (default 12).
+ */
+export async function makeFillStation(o: { clubId?: string, name?: string, lowestPartRatingBar?: number, gaugeCalibratedOn?: string, gaugeIntervalMonths?: number, db?: string } = {}): Promise<{ stationId: string, name: string }> {
+  const name = o.name ?? `Launcher ${randomUUID().slice(0, 8)}`
+  const stationId = await insertRow('fill_stations', {
+    clubId: o.clubId ?? await demoClubId(o.db), name, lowestPartRatingBar: o.lowestPartRatingBar ?? 75, gaugeName: `Gauge of ${name}`,
+    gaugeCalibratedOn: o.gaugeCalibratedOn ?? clubDay(-30), gaugeIntervalMonths: o.gaugeIntervalMonths ?? 12,
+  }, o.db)
+  return { stationId, name }
+}
+
+/**
+ * A launch event of `createdBy`'s club on `heldOn` (default today) with a pressure cap (default 25 bar),
+ * using `stationIds`, staffed by `staffIds`, and `registeredIds` registered.
+ */
+export async function makeLaunchEvent(o: { createdBy: string, heldOn?: string, site?: string, pressureCapBar?: number, competition?: boolean, stationIds?: string[], staffIds?: string[], registeredIds?: string[], cancelled?: boolean, db?: string }): Promise<{ eventId: string }> {
+  const [m] = await sql<{ club_id: string }>('SELECT club_id FROM memberships WHERE id = $1', [o.createdBy], o.db)
+  const clubId = m!.club_id
+  const eventId = await insertRow('launch_events', {
+    clubId, heldOn: o.heldOn ?? clubDay(0), site: o.site ?? 'North flat', pressureCapBar: o.pressureCapBar ?? 25, competition: o.competition ?? false,
+    createdByMembershipId: o.createdBy, ...(o.cancelled ? { cancelledAt: NOW, cancelReason: 'Cancelled in a test' } : {}),
+  }, o.db)
+  for (const stationId of o.stationIds ?? []) await sql('INSERT INTO launch_event_stations (event_id, club_id, station_id) VALUES ($1, $2, $3)', [eventId, clubId, stationId], o.db)
+  for (const id of o.staffIds ?? []) await sql('INSERT INTO launch_event_staff (event_id, club_id, membership_id) VALUES ($1, $2, $3)', [eventId, clubId, id], o.db)
+  for (const id of o.registeredIds ?? []) await sql('INSERT INTO launch_event_registrations (event_id, club_id, membership_id) VALUES ($1, $2, $3)', [eventId, clubId, id], o.db)
+  return { eventId }
+}
+
+/**
+ * A fill in the log, straight into the table (no gate): `memberId` filled `vesselId` at `eventId` on
+ * `stationId` to `pressureBar` (default 5), recorded by `recordedBy` (default the member), supervised
+ * by `supervisorId` (then also its recorder); allowed unless `reasons` are given.
+ */
+export async function makeFill(o: { eventId: string, stationId: string, memberId: string, vesselId: string, recordedBy?: string, supervisorId?: string, pressureBar?: number, waterVolumeL?: number, reasons?: { code: string, message: string }[], db?: string }): Promise<{ fillId: string }> {
+  const [e] = await sql<{ club_id: string, held_on: string }>('SELECT club_id, held_on::text FROM launch_events WHERE id = $1', [o.eventId], o.db)
+  if (!e) throw new Error('makeFill: no such event')
+  const pressureBar = o.pressureBar ?? 5
+  const reasons = o.reasons ?? []
+  const fillId = await insertRow('fills', {
+    clubId: e.club_id, eventId: o.eventId, heldOn: e.held_on, stationId: o.stationId, membershipId: o.memberId, vesselId: o.vesselId,
+    recordedByMembershipId: o.supervisorId ?? o.recordedBy ?? o.memberId, supervisorMembershipId: o.supervisorId ?? null,
+    pressureBar, enteredPressure: pressureBar, enteredUnit: 'bar', waterVolumeL: o.waterVolumeL ?? 0.5,
+    allowed: reasons.length === 0, permittedMaxBar: 25, limitingFactor: 'TIER', reasons: JSON.stringify(reasons),
+    storedEnergyJ: 1000, tntEquivalentKg: 0.0002, minimumDistanceM: 5,
+  }, o.db)
+  return { fillId }
+}

@@ -15,6 +15,7 @@ import * as m0016 from './0016-coupon-tests'
 import * as m0017 from './0017-training'
 import * as m0018 from './0018-bookings'
 import * as m0019 from './0019-dues'
+import * as m0020 from './0020-tiers-and-fills'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -33,4 +34,5 @@ export const migrations = [
   { name: '0017-training', ...m0017 },
   { name: '0018-bookings', ...m0018 },
   { name: '0019-dues', ...m0019 },
+  { name: '0020-tiers-and-fills', ...m0020 },
 ]

@@ -6,12 +6,21 @@ import { PROOF_INVALIDATING_EVENTS, earliestProofDate, proofStanding, type Proof
 import { policyFillLimit, policyIntervalMonths } from './policy'
 
 /**
- * The fills recorded for each vessel since its last passed proof (`since`, YYYY-MM-DD), by vessel id.
- * Counts from the fill log once it exists; until fills are recorded every count is 0. This is the one
- * place the proof standing, the lapsing filter and the notices take the count from.
+ * The fills recorded for each vessel since its last passed proof (`since`, YYYY-MM-DD: fills at events
+ * held on or after that day), by vessel id, in one query. Only allowed fills count; refused attempts
+ * never do. This is the one place the proof standing, the lapsing filter and the notices take the count from.
  */
-export async function fillsSinceProof(proofs: readonly { vesselId: string, since: string }[], _transaction?: Transaction): Promise<Map<string, number>> {
-  return new Map(proofs.map(p => [p.vesselId, 0]))
+export async function fillsSinceProof(proofs: readonly { vesselId: string, since: string }[], transaction?: Transaction): Promise<Map<string, number>> {
+  const counts = new Map(proofs.map(p => [p.vesselId, 0]))
+  if (!proofs.length) return counts
+  const rows = await useDb().query<{ vessel_id: string, n: number }>(
+    `SELECT f.vessel_id, count(*)::int AS n
+       FROM unnest(ARRAY[:ids]::uuid[], ARRAY[:since]::date[]) AS p(vessel_id, since)
+       JOIN fills f ON f.vessel_id = p.vessel_id AND f.allowed AND f.held_on >= p.since
+      GROUP BY f.vessel_id`,
+    { replacements: { ids: proofs.map(p => p.vesselId), since: proofs.map(p => p.since) }, type: QueryTypes.SELECT, transaction })
+  for (const r of rows) counts.set(r.vessel_id, r.n)
+  return counts
 }
 
 /** What the standing of one vessel is derived from: its stored state and its last passed proof. */
