@@ -85,9 +85,12 @@ export function fillBody(club: FillClub, who: Filler, o: Partial<FillBody> = {})
   return { memberId: who.memberId, vesselId: who.vesselId, pressure: 8, unit: 'bar', waterVolumeL: 0.5, stationId: club.stationId, eventId: club.eventId, ...o }
 }
 
+/** The error fields of a 4xx answer (absent on a 200). */
+interface ErrorBody { message: string, data: { fields: Record<string, string>, reasons?: { code: string }[] } }
+
 /** POST /api/fills/check as `as` (a cookie). */
 export function check(as: string, body: FillBody) {
-  return api<FillCheckDto & { data?: { fields?: Record<string, string> } }>('/api/fills/check', { method: 'POST', as, body })
+  return api<FillCheckDto & ErrorBody>('/api/fills/check', { method: 'POST', as, body })
 }
 
 /** POST /api/fills as `as` (a cookie). */
