@@ -133,6 +133,8 @@ const MATRIX: Record<string, Row> = {
   'GET /api/dues/receipts/[id]': signedIn(404), // [id] is a membership id here: no such receipt
   'GET /api/dues/receipts/[id]/pdf': signedIn(404),
   'PUT /api/dues/members/[id]/plan': only(400, 'admin'),
+  'POST /api/fills/check': signedIn(400), // a member for their own fills, staff for anyone: the body is checked first
+  'POST /api/fills': signedIn(400),
 }
 
 let subjectId = ''
