@@ -96,7 +96,7 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'policy.tiers': { label: 'Changed the tier table', meaning: 'The safety officer changed a pressure tier\'s name, fill cap, prerequisites, validity or renewal fills, or the junior cap.' },
   'tier.grant': { label: 'Signed off a pressure tier', meaning: 'An assessor granted a member a pressure tier after the server found every prerequisite met.' },
   'tier.renew': { label: 'Renewed a pressure tier', meaning: 'An assessor re-signed a member\'s tier after enough fills within its validity; the validity restarted.' },
-  'tier.initial': { label: 'Granted the club\'s first T4 from the command line', meaning: 'Whoever runs the server granted the first T4 of a club that never had one (npm run tier:initial); prerequisites were waived.' },
+  'tier.initial': { label: 'Granted the first T4 (command line)', meaning: 'Whoever runs the server granted the first T4 of a club that never had one (npm run tier:initial); prerequisites were waived.' },
   'tier.suspend': { label: 'Suspended a pressure tier', meaning: 'The safety officer suspended a member\'s tier until reinstated; the member falls back to the highest tier still valid.' },
   'tier.reinstate': { label: 'Reinstated a pressure tier', meaning: 'The safety officer lifted a tier\'s suspension; it counts again until its expiry.' },
   'tier.revoke': { label: 'Revoked a pressure tier', meaning: 'The safety officer withdrew a member\'s tier; only a new grant restores it.' },
