@@ -45,7 +45,7 @@ export async function changeTier(actor: Actor, membershipId: string, rank: TierR
     if (!rows.size) notFound('No such member')
     const held = heldOr404(await heldTierRows(membershipId, transaction), rank)
     const t = toHeldTier(held)
-    const before = { rank, state: tierState(t, today) }
+    const before = { rank, tierState: tierState(t, today) }
     if (t.revoked) refuse({ code: 'TIER_REVOKED', message: `${tierCode(rank)} was revoked: only a new grant restores it.` })
     if (action === 'suspend' && t.suspended) refuse({ code: 'TIER_ALREADY_SUSPENDED', message: `${tierCode(rank)} is already suspended.` })
     if (action === 'reinstate' && !t.suspended) refuse({ code: 'TIER_NOT_SUSPENDED', message: `${tierCode(rank)} is not suspended.` })
@@ -59,7 +59,7 @@ export async function changeTier(actor: Actor, membershipId: string, rank: TierR
     const after = toHeldTier((await heldTierRows(membershipId, transaction)).find(r => r.rank === rank)!)
     await recordAudit(actor, clubId, {
       action: `tier.${action}`, subjectType: 'membership', subjectId: membershipId,
-      before, after: { rank, state: tierState(after, today) }, reason,
+      before, after: { rank, tierState: tierState(after, today) }, reason,
     }, transaction)
     if (action !== 'revoke') await queueTierNotice(actor, membershipId, held, action === 'suspend' ? 'tier_suspended' : 'tier_reinstated', reason, transaction)
   })

@@ -77,7 +77,7 @@ export async function grantTier(actor: Actor, membershipId: string, input: TierG
     const id = await insertSignoff({ clubId, memberTierId: row!.id, membershipId, rank, kind: 'grant', signedOn, expiresOn, assessorId: actor.membership.id, notes }, transaction)
     await recordAudit(actor, clubId, {
       action: 'tier.grant', subjectType: 'membership', subjectId: membershipId,
-      before: existing ? { rank, state: tierState(toHeldTier(existing), today), expiresOn: existing.expires_on } : null,
+      before: existing ? { rank, tierState: tierState(toHeldTier(existing), today), expiresOn: existing.expires_on } : null,
       after: { rank, signedOn, expiresOn, signoffId: id },
     }, transaction)
     return { id, rank, kind: 'grant', signedOn, expiresOn, assessor: { id: actor.membership.id, name: actor.user.name }, notes, evidence: [] }
