@@ -12,6 +12,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/coupons', label: 'Coupon bursts', testId: 'nav-coupons' },
   { to: '/training', label: 'Training', testId: 'nav-training' },
   { to: '/workshop', label: 'Workshop', testId: 'nav-workshop' },
+  { to: '/tiers', label: 'Pressure tiers', testId: 'nav-tiers' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
   { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
   { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },

@@ -2,6 +2,7 @@ import type { Role } from '../utils/permissions'
 import type { MembershipStatus } from '../utils/membership-status'
 import type { ClubDto } from './clubs'
 import type { WaiverStandingDto } from './waivers'
+import type { MemberTiersDto } from './tiers'
 
 /** Members (a person's membership in the club) and my standing. Plain objects the routes return, never model instances. */
 
@@ -43,6 +44,8 @@ export interface StandingDto {
   daysToExpiry: number | null
   /** Things the member should do, in plain sentences. */
   attention: { code: string, message: string, to?: string }[]
+  /** Every pressure tier held, and what the next one still needs. */
+  tiers: MemberTiersDto
 }
 
 /** One line of "what needs my attention" (StandingDto.attention). */

@@ -47,6 +47,13 @@ export const AUDIT_ACTIONS = [
   'dues.refund',
   'dues.member_plan',
   'dues.plan_edit',
+  'policy.tiers',
+  'tier.grant',
+  'tier.renew',
+  'tier.initial',
+  'tier.suspend',
+  'tier.reinstate',
+  'tier.revoke',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -86,6 +93,13 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'dues.refund': { label: 'Refunded a payment', meaning: 'An admin refunded the latest dues payment in full; paid-through returned to the date that payment replaced.' },
   'dues.member_plan': { label: 'Changed a member\'s dues plan', meaning: 'An admin chose the plan a member renews on.' },
   'dues.plan_edit': { label: 'Changed a dues plan', meaning: 'An admin changed a plan\'s name, price, currency or period; payments already made keep theirs.' },
+  'policy.tiers': { label: 'Changed the tier table', meaning: 'The safety officer changed a pressure tier\'s name, fill cap, prerequisites, validity or renewal fills, or the junior cap.' },
+  'tier.grant': { label: 'Signed off a pressure tier', meaning: 'An assessor granted a member a pressure tier after the server found every prerequisite met.' },
+  'tier.renew': { label: 'Renewed a pressure tier', meaning: 'An assessor re-signed a member\'s tier after enough fills within its validity; the validity restarted.' },
+  'tier.initial': { label: 'Granted the first T4 (command line)', meaning: 'Whoever runs the server granted the first T4 of a club that never had one (npm run tier:initial); prerequisites were waived.' },
+  'tier.suspend': { label: 'Suspended a pressure tier', meaning: 'The safety officer suspended a member\'s tier until reinstated; the member falls back to the highest tier still valid.' },
+  'tier.reinstate': { label: 'Reinstated a pressure tier', meaning: 'The safety officer lifted a tier\'s suspension; it counts again until its expiry.' },
+  'tier.revoke': { label: 'Revoked a pressure tier', meaning: 'The safety officer withdrew a member\'s tier; only a new grant restores it.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -113,6 +127,7 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   booking: 'A workshop booking',
   payment: 'A dues payment',
   dues_plan: 'A dues plan',
+  tier_levels: 'The club\'s tier table',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -4,6 +4,14 @@
  * label shows its name; tests/api/audit-words.test.ts checks every field the audit trail records has one.
  */
 export const FIELD_LABELS: Record<string, string> = {
+  // Pressure tiers
+  rank: 'Tier',
+  tierState: 'Tier state',
+  signedOn: 'Signed on',
+  signoffId: 'Sign-off',
+  initial: 'Initial grant',
+  levels: 'Tier table',
+  juniorCapRank: 'Junior cap',
   // A member's details
   name: 'Name',
   phone: 'Phone',

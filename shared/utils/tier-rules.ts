@@ -59,7 +59,7 @@ export const STARTING_TIER_LEVELS: readonly TierLevel[] = [
 export const DEFAULT_JUNIOR_CAP_RANK: TierRank = 1
 
 /** Why a table of tiers is refused: caps must rise strictly with rank, and T0's is 0. Null when fine. */
-export function tierTableProblem(levels: readonly Pick<TierLevel, 'rank' | 'fillCapBar'>[]): string | null {
+export function tierTableProblem(levels: readonly { rank: number, fillCapBar: number }[]): string | null {
   const sorted = [...levels].sort((a, b) => a.rank - b.rank)
   if (sorted[0]?.rank === 0 && sorted[0].fillCapBar !== 0) return 'T0 allows no fills: its fill cap is 0 bar.'
   for (let i = 1; i < sorted.length; i++) {
@@ -196,7 +196,11 @@ export function tierGaps(f: GrantFacts): TierGap[] {
     gaps.push({ code: 'SUPERVISED_FILLS_SHORT', message: `${level.minSupervisedFills} supervised fills${above} needed, ${f.supervisedFills} on record.` })
   }
   const junior = juniorForTiers(f.birthDate, f.today)
-  if (!f.birthDate) gaps.push({ code: 'BIRTH_DATE_MISSING', message: 'No birth date on record: the member counts as a junior until it is given.' })
+  // Without a birth date the member counts as a junior: the gap is named only where the date decides
+  // (a minimum age, or a tier above the junior cap), so T0 and the junior tiers can still be granted.
+  if (!f.birthDate) {
+    if (level.minAgeYears !== null || level.rank > f.juniorCapRank) gaps.push({ code: 'BIRTH_DATE_MISSING', message: 'No birth date on record: the member counts as a junior until it is given.' })
+  }
   else if (level.minAgeYears !== null && ageBelow(f.birthDate, f.today, level.minAgeYears)) {
     gaps.push({ code: 'UNDER_MIN_AGE', message: `${code} needs the member to be at least ${level.minAgeYears}.` })
   }

@@ -135,6 +135,16 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/dues/members/[id]/plan': only(400, 'admin'),
   'POST /api/fills/check': signedIn(400), // a member for their own fills, staff for anyone: the body is checked first
   'POST /api/fills': signedIn(400),
+  'GET /api/tiers': signedIn(200), // every member reads the club's tier table
+  'PUT /api/tiers': only(400, 'safety'), // policy.edit
+  'GET /api/members/[id]/tiers': only(200, 'instructor', 'safety', 'admin'), // members.read, or the member's own
+  'POST /api/members/[id]/tiers': only(400, 'instructor', 'safety'), // tiers.grant
+  'POST /api/members/[id]/tiers/[rank]/renewal': only(404, 'instructor', 'safety'), // tiers.grant; the body is optional and no tier is held
+  'POST /api/members/[id]/tiers/[rank]/suspend': only(400, 'safety'), // tiers.suspend
+  'POST /api/members/[id]/tiers/[rank]/reinstate': only(400, 'safety'),
+  'POST /api/members/[id]/tiers/[rank]/revoke': only(400, 'safety'),
+  'POST /api/tiers/signoffs/[id]/evidence': only(400, 'instructor', 'safety'), // tiers.grant; an empty multipart form
+  'GET /api/tiers/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
 }
 
 let subjectId = ''
@@ -148,6 +158,7 @@ const PARAM_VALUES: Record<string, () => string> = {
   id: () => subjectId,
   tag: () => 'ZZZZZ-9999',
   token: () => 'A'.repeat(43),
+  rank: () => '2',
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]

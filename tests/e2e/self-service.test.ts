@@ -45,7 +45,9 @@ describe('a member\'s own screens', () => {
       await page.waitForURL(url => url.pathname === '/standing')
       expect(await page.getByTestId('waiver-line').textContent()).toMatch(/Accepted/)
       expect(await page.getByTestId('status-chip').textContent()).toBe('Active')
-      expect(await page.getByTestId('standing-tier').getByTestId('section-empty').textContent()).toMatch(/will appear here/)
+      // No tier yet: the tiers section says so and names what T0 still needs.
+      expect(await page.getByTestId('standing-tiers').textContent()).toMatch(/No pressure tier is recorded yet/)
+      expect(await page.getByTestId('standing-tiers').getByTestId('tier-gap-COURSE_NOT_CURRENT').count()).toBe(1)
       // The training section lists every course; a new member has taken none.
       await page.getByTestId('standing-training').getByTestId('course-composite_ppe').waitFor()
       expect(await page.getByTestId('standing-training').getByTestId('course-standing-never_taken').count()).toBe(7)

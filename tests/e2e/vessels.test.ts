@@ -3,7 +3,7 @@ import QRCode from 'qrcode'
 import sharp from 'sharp'
 import type { Page } from 'playwright-core'
 import { setupBrowser, goTo, signedInPage } from '../support/browser'
-import { clubDay, makeClub, makeMember } from '../support/factories'
+import { clubDay, makeClub, makeMember, makeTier } from '../support/factories'
 import { sql } from '../support/db'
 import { api } from '../support/http'
 import { signIn } from '../support/global-setup'
@@ -119,6 +119,7 @@ describe('the vessel registry in the browser', () => {
     const club = await makeClub({ name: `Proof Club ${prefix}`, tagPrefix: prefix })
     const owner = await makeMember({ clubId: club.id, unitPreference: 'bar' })
     const instructor = await makeMember({ clubId: club.id, roles: ['instructor'] })
+    await makeTier({ memberId: instructor.memberId, rank: 3 }) // a witness holds a valid T3 or higher
     const cookie = await signIn(inject('baseUrl'), owner.email, owner.password)
     const made = (await api<{ tag: string }>('/api/vessels', { method: 'POST', as: cookie, body: { name: 'Ringed Plover', construction: 'single_bottle', volumeL: 2, diameterMm: 102 } })).body
 

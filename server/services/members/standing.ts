@@ -3,6 +3,7 @@ import { toMemberDto } from './members'
 import { DUES_RENEWAL_NOTICE_DAYS } from '#shared/utils/membership-status'
 import { addCalendarDays, daysBetween, formatCalendarDate as long } from '#shared/utils/dates'
 import { clubToday } from '../clubs'
+import { memberTierStanding } from '../tiers'
 import type { AttentionItem, MemberDto, StandingDto } from '#shared/types/members'
 import type { ClubDto } from '#shared/types/clubs'
 import type { Actor } from '../../utils/auth'
@@ -15,7 +16,7 @@ export function toClubDto(club: Club): ClubDto {
 /**
  * What the member should do next, most pressing first, each a plain sentence with a link.
  * Codes are stable: SUSPENDED, RESIGNED, EMAIL_UNVERIFIED, AWAITING_APPROVAL, DUES_NEVER_PAID,
- * DUES_LAPSED, DUES_GRACE, DUES_EXPIRING, WAIVER_NOT_ACCEPTED, GUARDIAN_CONSENT_MISSING.
+ * DUES_LAPSED, DUES_GRACE, DUES_EXPIRING, WAIVER_NOT_ACCEPTED, BIRTH_DATE_MISSING, GUARDIAN_CONSENT_MISSING.
  * Dues items are left out while suspended or resigned (the admin's action says it all), and
  * DUES_NEVER_PAID waits until the sign-up is approved.
  */
@@ -59,6 +60,9 @@ export function attentionFor(member: MemberDto, club: ClubDto, today: string): A
       to: '/waiver',
     })
   }
+  if (!member.birthDate) {
+    items.push({ code: 'BIRTH_DATE_MISSING', message: 'Your birth date is not on record: until the club\'s admin adds it, you count as a junior for every fill and tier rule.', to: '/standing' })
+  }
   if (member.junior && !member.guardianConsentAt) {
     items.push({ code: 'GUARDIAN_CONSENT_MISSING', message: `Your guardian${member.guardianName ? ` (${member.guardianName})` : ''} has not yet confirmed their consent from the link we e-mailed them.`, to: '/standing' })
   }
@@ -77,5 +81,6 @@ export async function loadStanding(actor: Actor): Promise<StandingDto | null> {
     today,
     daysToExpiry: member.paidThrough ? daysBetween(today, member.paidThrough) : null,
     attention: attentionFor(member, club, today),
+    tiers: (await memberTierStanding(club.id, actor.membership.id, today))!,
   }
 }

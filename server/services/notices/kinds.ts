@@ -194,6 +194,39 @@ export const NOTICE_KINDS = {
         : 'Enrol in a session of the course in good time to keep it current.',
     ], { label: 'See my training', url: `${v.baseUrl}/training` }),
   },
+  // Safety: a tier that expires stops allowing fills above the tier below; the holder hears 60, 30 and 7 days ahead.
+  tier_expiring: {
+    optional: false,
+    label: 'Pressure tier expiring (60, 30 and 7 days)',
+    description: 'Sent 60, 30 and 7 days before a pressure tier you hold expires.',
+    render: v => notice(`Your pressure tier ${v.tierCode} (${v.tierName}) expires on ${longDate(v.expiresOn)}`, [
+      `Hello ${v.memberName},`,
+      `Your pressure tier ${v.tierCode} (${v.tierName}) is valid through ${longDate(v.expiresOn)} (${v.daysBefore} days from when this was sent). After that day you fall back to the highest tier you still hold, and fills above its cap are refused.`,
+      'An instructor renews the tier once you have logged the club\'s minimum fills within its validity: ask at the next launch event.',
+      PRESSURE_CAUTION,
+    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
+  // Safety: the member must know at once that the tier no longer allows their fills.
+  tier_suspended: {
+    optional: false,
+    label: 'Pressure tier suspended',
+    description: 'Sent when the safety officer suspends a pressure tier you hold.',
+    render: v => notice(`Your pressure tier ${v.tierCode} (${v.tierName}) is suspended`, [
+      `Hello ${v.memberName},`,
+      `The safety officer of ${v.clubName} suspended your pressure tier ${v.tierCode} (${v.tierName}) until it is reinstated. The reason given: ${v.reason}`,
+      'Until then you fall back to the highest tier you still hold, and fills above its cap are refused. Talk to the safety officer about what reinstates it.',
+    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
+  tier_reinstated: {
+    optional: false,
+    label: 'Pressure tier reinstated',
+    description: 'Sent when the safety officer lifts the suspension of a pressure tier you hold.',
+    render: v => notice(`Your pressure tier ${v.tierCode} (${v.tierName}) is reinstated`, [
+      `Hello ${v.memberName},`,
+      `The safety officer of ${v.clubName} reinstated your pressure tier ${v.tierCode} (${v.tierName}). It counts again through its expiry on ${longDate(v.expiresOn)}.`,
+      PRESSURE_CAUTION,
+    ], { label: 'See my standing', url: `${v.baseUrl}/standing` }),
+  },
   training_moved_up: {
     optional: true,
     label: 'Moved up from a waiting list',

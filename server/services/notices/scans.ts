@@ -4,6 +4,7 @@ import { enqueueNotice } from './notices'
 import { proofsLapsingSoon } from '../vessels'
 import { trainingRecordsExpiringSoon } from '../training'
 import { scanDuesReminders } from '../dues'
+import { tiersExpiringSoon } from '../tiers'
 
 /**
  * Queues a `proof_lapsing` notice to the owner of every in-service vessel of `club` whose proof is
@@ -52,6 +53,29 @@ async function scanClubTrainingExpiring(club: Club, now: Date): Promise<number> 
   return queued
 }
 
+/**
+ * Queues a `tier_expiring` notice for every tier (neither suspended nor revoked) that expires within
+ * 60 days: the 60-, 30- and 7-day warnings, each once. The subject is the held tier, the due date its
+ * expiry minus the warning's days, so a rerun queues nothing and a renewal (a new expiry) starts
+ * again. Safety: nobody can opt out. Returns how many it queued.
+ */
+async function scanClubTierExpiring(club: Club, now: Date): Promise<number> {
+  let queued = 0
+  for (const t of await tiersExpiringSoon(club.id, clubToday(club, now))) {
+    const added = await enqueueNotice({
+      clubId: club.id,
+      membershipId: t.membershipId,
+      kind: 'tier_expiring',
+      subjectKey: t.memberTierId,
+      dueOn: addCalendarDays(t.expiresOn, -t.daysBefore),
+      toEmail: t.email,
+      vars: { clubName: club.name, memberName: t.name, baseUrl: clubBaseUrl(club), tierCode: t.tierCode, tierName: t.tierName, expiresOn: t.expiresOn, daysBefore: t.daysBefore },
+    })
+    if (added) queued += 1
+  }
+  return queued
+}
+
 /** Runs every reminder scan for club `clubId` (or every club); returns how many notices were queued. */
 export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {}): Promise<number> {
   const clubs = await Club.findAll({ where: opts.clubId ? { id: opts.clubId } : {}, order: [['createdAt', 'ASC']] })
@@ -60,6 +84,7 @@ export async function runNoticeScans(opts: { clubId?: string, now?: Date } = {})
     queued += await scanDuesReminders(club, opts.now ?? new Date())
     queued += await scanClubProofLapsing(club, opts.now ?? new Date())
     queued += await scanClubTrainingExpiring(club, opts.now ?? new Date())
+    queued += await scanClubTierExpiring(club, opts.now ?? new Date())
   }
   return queued
 }

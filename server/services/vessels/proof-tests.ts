@@ -9,7 +9,12 @@ import { earliestProofDate, ratedFillBar } from '#shared/utils/vessel-arithmetic
 import { PA_PER_BAR, pressureToPa } from '#shared/utils/units'
 import { vesselTransition } from '#shared/utils/vessel-transitions'
 import { clubVesselRules } from './policy'
+import { validRankOf } from '../tiers'
+import { tierCode } from '#shared/utils/tier-rules'
 import { vesselDto, type VesselViewer } from './registry'
+
+/** The lowest tier a proof-test witness holds (T3). */
+export const WITNESS_MIN_TIER_RANK = 3
 
 /** The highest test pressure a proof may record, bar (the table's check). */
 export const MAX_PROOF_PRESSURE_BAR = 300
@@ -65,7 +70,7 @@ const toHundredths = (bar: number, down = false) => (down ? Math.floor(bar * 100
  * An instructor (`witness`) records vessel `vesselId`'s proof test. Refused with every reason that
  * applies: the owner may not witness their own vessel; the vessel's state must allow a proof (the
  * transition table); not before the club's cure wait after the last layup; air only when the club
- * allows it; a gauge photo must be one of this vessel's gauge photos. A pass rates the vessel (proof ÷
+ * allows it; a gauge photo must be one of this vessel's gauge photos; the witness holds a valid T3 or higher. A pass rates the vessel (proof ÷
  * the club's margin, rounded down to 0.01 bar) and puts it in service; a leak leaves it awaiting
  * proof; a burst or permanent deformation fails it. Audited; the owner's proof request is settled.
  */
@@ -79,6 +84,11 @@ export async function recordProofTest(witness: Actor, vesselId: string, input: P
     const reasons: Reason[] = []
     if (vessel.ownerMembershipId === witness.membership.id) {
       reasons.push({ code: 'WITNESS_IS_OWNER', message: 'An owner may not witness the proof test of their own vessel: another instructor records it.' })
+    }
+    // A witness vouches for a vessel at pressure: they must hold a valid T3 or higher themselves.
+    const witnessRank = await validRankOf(witness.membership.id, rules.today, transaction)
+    if (witnessRank === null || witnessRank < WITNESS_MIN_TIER_RANK) {
+      reasons.push({ code: 'WITNESS_TIER_TOO_LOW', message: `A proof-test witness must hold a valid ${tierCode(WITNESS_MIN_TIER_RANK)} or higher${witnessRank === null ? '; you hold no valid tier' : `; yours is ${tierCode(witnessRank)}`}.` })
     }
     const transition = vesselTransition(before.proof.effectiveState, { kind: 'proof', result: input.result })
     if (!transition.allowed) reasons.push(transition.reason)

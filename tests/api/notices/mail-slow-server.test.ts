@@ -110,6 +110,8 @@ beforeAll(async () => {
   await sql(`UPDATE vessels SET state = 'retired' WHERE state = 'in_service'`, [], databaseUrl)
   // Nor is any demo training record about to expire (a safety notice too).
   await sql(`UPDATE training_records SET expires_on = (expires_on + interval '5 years')::date`, [], databaseUrl)
+  // Nor any demo pressure tier (its expiry warnings are a safety notice too).
+  await sql(`UPDATE member_tiers SET expires_on = (expires_on + interval '5 years')::date`, [], databaseUrl)
 }, 180_000)
 
 afterAll(async () => {

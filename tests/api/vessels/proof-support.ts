@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto'
 import { inject } from 'vitest'
 import { api } from '../../support/http'
-import { makeClub, makeMember, type MadeMember } from '../../support/factories'
+import { makeClub, makeMember, makeTier, type MadeMember } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
 import type { Role } from '../../../shared/utils/permissions'
 
@@ -34,6 +34,8 @@ export async function proofClub(): Promise<ProofClub> {
     person(clubId), person(clubId), person(clubId, ['instructor']), person(clubId, ['instructor']),
     person(clubId, ['safety_officer']), person(clubId, ['admin']),
   ])
+  // A proof-test witness holds a valid T3 or higher.
+  await Promise.all([instructor!, instructorOwner!].map(i => makeTier({ memberId: i.memberId, rank: 3 })))
   return { clubId, owner: owner!, other: other!, instructor: instructor!, instructorOwner: instructorOwner!, safety: safety!, admin: admin! }
 }
 

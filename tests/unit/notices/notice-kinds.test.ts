@@ -30,6 +30,9 @@ function varsFor(baseUrl: string): NoticeVars {
     stationName: 'Laminating bench A',
     startsText: '14 Mar 2026, 10:00',
     endsText: '14 Mar 2026, 12:00',
+    tierCode: 'T2',
+    tierName: 'Reinforced',
+    reason: 'Filled above the event cap',
   }
 }
 
