@@ -10,6 +10,7 @@ import { seedCouponTests } from './coupons'
 import { seedTraining } from './training'
 import { seedStations } from './stations'
 import { seedDuesPayments } from './dues'
+import { seedEvents } from './events'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -24,6 +25,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedTraining,
   seedStations,
   seedDuesPayments,
+  seedEvents,
 ]
 
 /** Seeds the demo club in one transaction. */
