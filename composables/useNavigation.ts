@@ -13,11 +13,13 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/training', label: 'Training', testId: 'nav-training' },
   { to: '/workshop', label: 'Workshop', testId: 'nav-workshop' },
   { to: '/tiers', label: 'Pressure tiers', testId: 'nav-tiers' },
+  { to: '/events', label: 'Launch events', testId: 'nav-events' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
   { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
   { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },
   { to: '/dues/payments', label: 'Dues and payments', can: 'dues.manage', testId: 'nav-dues' },
   { to: '/vessel-policy', label: 'Vessel policy', can: 'policy.edit', testId: 'nav-vessel-policy' },
+  { to: '/fill-stations', label: 'Fill stations', can: 'members.read', testId: 'nav-fill-stations' },
 ]
 
 /** The navigation items the signed-in member may use. */

@@ -11,6 +11,7 @@ import { useDb } from './db'
 //   2. the account's users row                               lockUser
 //   3. the club's vessel counter, then a vessel               takeVesselNumber, lockVessel
 //   4. training session, or booking                          lockTrainingSession, lockBooking
+//      or launch event                                      lockLaunchEvent
 //   5. payment, then the receipt counter                     lockPayment, takeReceiptNumber
 //   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
 //                                                            updated in place after 1–2
@@ -124,4 +125,16 @@ export async function takeReceiptNumber(clubId: string, transaction: Transaction
     { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
   if (!row) throw new Error(`no club ${clubId}`)
   return row.number
+}
+
+/**
+ * Locks launch event `id` of club `clubId` FOR UPDATE (step 4) and returns what a change, a cancellation,
+ * a registration or a walk-in decides on, or undefined: a move and a registration arriving at once are
+ * applied one after the other, so the moved event's e-mails reach everyone registered at that moment.
+ */
+export async function lockLaunchEvent(clubId: string, id: string, transaction: Transaction): Promise<{ held_on: string, cancelled_at: Date | null } | undefined> {
+  const [row] = await useDb().query<{ held_on: string, cancelled_at: Date | null }>(
+    'SELECT held_on::text AS held_on, cancelled_at FROM launch_events WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
+  return row
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { isoDate, optionalText } from './common'
 import { PRESSURE_ENTRY_UNITS } from '../utils/units'
+import { equipmentFactorField } from './events'
 import { DISTANCE_RULES, MIN_PROOF_MARGIN, VESSEL_CONSTRUCTIONS } from '../utils/vessel-arithmetic'
 import { FAILURE_LOCATIONS, PROOF_RESULTS, REPORTABLE_VESSEL_EVENTS } from '../utils/vessel-transitions'
 
@@ -70,5 +71,6 @@ export const VesselPolicySchema = z.object({
   kProcess: z.number({ invalid_type_error: 'The process factor must be a number', required_error: 'Enter the process factor' }).finite()
     .gt(0, 'The process factor is more than 0').max(1, 'The process factor is at most 1')
     .refine(v => places(v, 3), 'At most three decimal places'),
+  equipmentFactor: equipmentFactorField,
 })
 export type VesselPolicyInput = z.infer<typeof VesselPolicySchema>

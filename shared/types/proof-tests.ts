@@ -58,4 +58,6 @@ export interface VesselPolicyDto {
   airTestsAllowed: boolean
   distanceRule: DistanceRule
   kProcess: number
+  /** Fill stations launch at most at their lowest rated part ÷ this (never below 3). */
+  equipmentFactor: number
 }

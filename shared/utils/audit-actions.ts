@@ -54,6 +54,13 @@ export const AUDIT_ACTIONS = [
   'tier.suspend',
   'tier.reinstate',
   'tier.revoke',
+  'fill_station.create',
+  'fill_station.update',
+  'fill_station.retire',
+  'event.create',
+  'event.update',
+  'event.cancel',
+  'event.walk_in',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -100,6 +107,13 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'tier.suspend': { label: 'Suspended a pressure tier', meaning: 'The safety officer suspended a member\'s tier until reinstated; the member falls back to the highest tier still valid.' },
   'tier.reinstate': { label: 'Reinstated a pressure tier', meaning: 'The safety officer lifted a tier\'s suspension; it counts again until its expiry.' },
   'tier.revoke': { label: 'Revoked a pressure tier', meaning: 'The safety officer withdrew a member\'s tier; only a new grant restores it.' },
+  'fill_station.create': { label: 'Added a fill station', meaning: 'An officer added a launcher with the rating of its lowest-rated part and its gauge.' },
+  'fill_station.update': { label: 'Changed a fill station', meaning: 'An officer changed a fill station\'s name, rating or gauge (a new calibration date, for one).' },
+  'fill_station.retire': { label: 'Retired a fill station', meaning: 'An officer took a fill station out of use; past events keep it in their fill log.' },
+  'event.create': { label: 'Created a launch event', meaning: 'A safety officer or admin set up a launch event: day, site, pressure cap, fill stations and staff.' },
+  'event.update': { label: 'Changed a launch event', meaning: 'A safety officer or admin changed a launch event; a new day e-mailed every registered member.' },
+  'event.cancel': { label: 'Cancelled a launch event', meaning: 'A safety officer or admin cancelled a launch event; every registered member was e-mailed the reason.' },
+  'event.walk_in': { label: 'Added a walk-in', meaning: 'A member of the event\'s staff added a member on the day who had not registered.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -128,6 +142,8 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   payment: 'A dues payment',
   dues_plan: 'A dues plan',
   tier_levels: 'The club\'s tier table',
+  fill_station: 'A fill station',
+  launch_event: 'A launch event',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

@@ -94,6 +94,20 @@ export const FIELD_LABELS: Record<string, string> = {
   appliedBy: 'Refund applied by',
   priceMinor: 'Price (cents)',
   periodMonths: 'Period (months)',
+  // Fill stations, launch events and the equipment factor
+  equipmentFactor: 'Equipment factor',
+  lowestPartRatingBar: 'Lowest rated pressure of any part (bar)',
+  gaugeName: 'Gauge',
+  gaugeCalibratedOn: 'Gauge calibrated on',
+  gaugeIntervalMonths: 'Gauge calibration interval (months)',
+  retired: 'Retired',
+  heldOn: 'Day',
+  site: 'Site',
+  pressureCapBar: 'Pressure cap (bar)',
+  competition: 'Competition',
+  stationIds: 'Fill stations',
+  staffIds: 'Staff',
+  cancelled: 'Cancelled',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

@@ -145,6 +145,23 @@ const MATRIX: Record<string, Row> = {
   'POST /api/members/[id]/tiers/[rank]/revoke': only(400, 'safety'),
   'POST /api/tiers/signoffs/[id]/evidence': only(400, 'instructor', 'safety'), // tiers.grant; an empty multipart form
   'GET /api/tiers/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
+  'GET /api/fill-stations': only(200, 'instructor', 'safety', 'admin'), // staff and officers (members.read)
+  'POST /api/fill-stations': only(400, 'safety', 'admin'), // events.manage
+  'PUT /api/fill-stations/[id]': only(400, 'safety', 'admin'),
+  'POST /api/fill-stations/[id]/retire': only(400, 'safety', 'admin'),
+  'GET /api/events': signedIn(200), // every member sees the club's events
+  'POST /api/events': only(400, 'safety', 'admin'), // events.manage
+  'GET /api/events/staff-choices': only(200, 'safety', 'admin'),
+  'GET /api/events/[id]': signedIn(404), // [id] is a membership id here: no such event
+  'PUT /api/events/[id]': only(400, 'safety', 'admin'),
+  'POST /api/events/[id]/cancel': only(400, 'safety', 'admin'),
+  'POST /api/events/[id]/registration': signedIn(404), // every member registers themselves; no such event
+  'DELETE /api/events/[id]/registration': signedIn(404),
+  'POST /api/events/[id]/walk-ins': only(400, 'instructor', 'safety'), // fills.record_any, and on the event's staff
+  'GET /api/events/[id]/fills': only(404, 'instructor', 'safety', 'admin'), // members.read; no such event
+  'GET /api/events/[id]/fills/export': only(404, 'instructor', 'safety', 'admin'),
+  'GET /api/events/[id]/roster': only(404, 'instructor', 'safety', 'admin'),
+  'GET /api/me/fills': signedIn(200), // the member's own
 }
 
 let subjectId = ''

@@ -196,7 +196,11 @@ describe('the shell', () => {
 
       await toggle.click()
       await nav.waitFor()
-      await page.mouse.click(180, 700)
+      // A tap on the page below the open panel (the panel grows with the role's navigation).
+      const open = (await nav.boundingBox())!
+      const below = open.y + open.height + 10
+      expect(below).toBeLessThan(740)
+      await page.mouse.click(180, below)
       await nav.waitFor({ state: 'hidden' })
     }
     finally {

@@ -11,6 +11,7 @@ import { seedTraining } from './training'
 import { seedStations } from './stations'
 import { seedDuesPayments } from './dues'
 import { seedTiers } from './tiers'
+import { seedEvents } from './events'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -26,6 +27,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedStations,
   seedDuesPayments,
   seedTiers,
+  seedEvents,
 ]
 
 /** Seeds the demo club in one transaction. */

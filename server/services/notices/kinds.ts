@@ -259,6 +259,27 @@ export const NOTICE_KINDS = {
       ...(v.reasonText ? [String(v.reasonText)] : []),
     ], { label: 'Book again', url: `${v.baseUrl}/workshop` }),
   },
+  // Safety: members registered for a launch event hear at once when its day changes or it is cancelled.
+  launch_event_moved: {
+    optional: false,
+    label: 'Launch event moved',
+    description: 'Sent to every registered member when a launch event moves to another day.',
+    render: v => notice(`Moved: the launch at ${v.eventSite ?? ''} is now on ${longDate(v.toDate)}`, [
+      `Hello ${v.memberName},`,
+      `The launch event at ${v.eventSite ?? ''} you registered for has moved from ${longDate(v.fromDate)} to ${longDate(v.toDate)}. You are still registered; if the new day does not suit you, withdraw on the event's page before the day.`,
+      PRESSURE_CAUTION,
+    ], { label: 'See the event', url: `${v.baseUrl}/events/${v.eventId ?? ''}` }),
+  },
+  launch_event_cancelled: {
+    optional: false,
+    label: 'Launch event cancelled',
+    description: 'Sent to every registered member when a launch event is cancelled.',
+    render: v => notice(`Cancelled: the launch at ${v.eventSite ?? ''} on ${longDate(v.eventDate)}`, [
+      `Hello ${v.memberName},`,
+      `The launch event at ${v.eventSite ?? ''} on ${longDate(v.eventDate)} you registered for is cancelled: no fills take place there that day.`,
+      `The reason: ${v.reasonText ?? ''}`,
+    ], { label: 'See the club\'s events', url: `${v.baseUrl}/events` }),
+  },
 } satisfies Record<string, NoticeKind>
 
 export type NoticeKindName = keyof typeof NOTICE_KINDS

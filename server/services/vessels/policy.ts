@@ -5,6 +5,7 @@ import type { VesselPolicyInput } from '#shared/schemas/proof'
 import type { VesselPolicyDto } from '#shared/types/proof-tests'
 import { DEFAULT_PROOF_POLICY, DEFAULT_HAND_LAYUP_PROCESS_FACTOR, constructionFamily, type VesselConstruction } from '#shared/utils/vessel-arithmetic'
 import { dateInZone } from '#shared/utils/dates'
+import { MIN_EQUIPMENT_FACTOR } from '#shared/utils/event-rules'
 import { DEFAULT_DISTANCE_RULE } from './distance-rule'
 
 /** The policy every club starts with (and has until its safety officer saves one). */
@@ -16,6 +17,7 @@ export const STARTING_VESSEL_POLICY: VesselPolicyDto = {
   airTestsAllowed: false,
   distanceRule: DEFAULT_DISTANCE_RULE,
   kProcess: DEFAULT_HAND_LAYUP_PROCESS_FACTOR,
+  equipmentFactor: MIN_EQUIPMENT_FACTOR,
 }
 
 /** The policy columns of `vessel_policies p` that `toPolicyDto` reads (NULL throughout without a row). */
@@ -37,11 +39,15 @@ export interface PolicyRow {
   air_tests_allowed: boolean
   distance_rule: VesselPolicyDto['distanceRule']
   k_process: string
+  equipment_factor: string | null
 }
 
 /** The policy a row of POLICY_COLUMNS_SQL holds: the starting policy when the club has saved none. */
 export function toPolicyDto(r: PolicyRow): VesselPolicyDto {
   if (r.margin_ratio === null) return structuredClone(STARTING_VESSEL_POLICY)
+function toPolicyDto(r: PolicyRow): VesselPolicyDto {
+  const equipmentFactor = r.equipment_factor === null ? MIN_EQUIPMENT_FACTOR : Number(r.equipment_factor)
+  if (r.margin_ratio === null) return { ...structuredClone(STARTING_VESSEL_POLICY), equipmentFactor }
   return {
     marginRatio: Number(r.margin_ratio),
     intervalMonths: {
@@ -56,6 +62,7 @@ export function toPolicyDto(r: PolicyRow): VesselPolicyDto {
     airTestsAllowed: r.air_tests_allowed,
     distanceRule: r.distance_rule,
     kProcess: Number(r.k_process),
+    equipmentFactor,
   }
 }
 
@@ -72,6 +79,10 @@ export interface ClubVesselRules {
 export async function clubVesselRules(clubId: string, transaction?: Transaction, now = new Date()): Promise<ClubVesselRules | null> {
   const [row] = await useDb().query<PolicyRow & { time_zone: string }>(
     `SELECT c.time_zone, ${POLICY_COLUMNS_SQL}
+  const [row] = await useDb().query<PolicyRow>(
+    `SELECT c.time_zone, p.margin_ratio, p.interval_months_single_bottle, p.interval_months_spliced_bottles,
+      p.interval_months_overwrapped_liner, p.interval_months_mandrel_tube, p.interval_months_other,
+      p.fill_limit_bottle, p.fill_limit_laminate, p.cure_wait_days, p.air_tests_allowed, p.distance_rule, p.k_process, p.equipment_factor
     FROM clubs c LEFT JOIN vessel_policies p ON p.club_id = c.id WHERE c.id = :clubId`,
     { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
   return row ? { policy: toPolicyDto(row), today: dateInZone(now, row.time_zone) } : null
@@ -105,8 +116,8 @@ export async function updateVesselPolicy(actor: Actor, input: VesselPolicyInput)
     await useDb().query(
       `INSERT INTO vessel_policies (club_id, margin_ratio, interval_months_single_bottle, interval_months_spliced_bottles,
         interval_months_overwrapped_liner, interval_months_mandrel_tube, interval_months_other, fill_limit_bottle,
-        fill_limit_laminate, cure_wait_days, air_tests_allowed, distance_rule, k_process, updated_at)
-      VALUES (:clubId, :margin, :single, :spliced, :overwrapped, :mandrel, :other, :bottle, :laminate, :cure, :air, :rule, :k, now())
+        fill_limit_laminate, cure_wait_days, air_tests_allowed, distance_rule, k_process, equipment_factor, updated_at)
+      VALUES (:clubId, :margin, :single, :spliced, :overwrapped, :mandrel, :other, :bottle, :laminate, :cure, :air, :rule, :k, :factor, now())
       ON CONFLICT (club_id) DO UPDATE SET margin_ratio = EXCLUDED.margin_ratio,
         interval_months_single_bottle = EXCLUDED.interval_months_single_bottle,
         interval_months_spliced_bottles = EXCLUDED.interval_months_spliced_bottles,
@@ -115,13 +126,13 @@ export async function updateVesselPolicy(actor: Actor, input: VesselPolicyInput)
         interval_months_other = EXCLUDED.interval_months_other, fill_limit_bottle = EXCLUDED.fill_limit_bottle,
         fill_limit_laminate = EXCLUDED.fill_limit_laminate, cure_wait_days = EXCLUDED.cure_wait_days,
         air_tests_allowed = EXCLUDED.air_tests_allowed, distance_rule = EXCLUDED.distance_rule,
-        k_process = EXCLUDED.k_process, updated_at = now()`,
+        k_process = EXCLUDED.k_process, equipment_factor = EXCLUDED.equipment_factor, updated_at = now()`,
       {
         replacements: {
           clubId, margin: input.marginRatio, single: input.intervalMonths.single_bottle, spliced: input.intervalMonths.spliced_bottles,
           overwrapped: input.intervalMonths.overwrapped_liner, mandrel: input.intervalMonths.mandrel_tube, other: input.intervalMonths.other,
           bottle: input.fillLimit.bottle, laminate: input.fillLimit.laminate, cure: input.cureWaitDays, air: input.airTestsAllowed,
-          rule: input.distanceRule, k: input.kProcess,
+          rule: input.distanceRule, k: input.kProcess, factor: input.equipmentFactor,
         },
         transaction,
       })

@@ -14,6 +14,7 @@ const STARTING: VesselPolicyDto = {
   airTestsAllowed: false,
   distanceRule: 'tnt',
   kProcess: 0.5,
+  equipmentFactor: 3,
 }
 
 beforeAll(async () => {
@@ -38,6 +39,8 @@ describe('the club\'s vessel policy', () => {
     ['a cure wait of 100 days', { cureWaitDays: 100 }, 'cureWaitDays'],
     ['a process factor above 1', { kProcess: 1.5 }, 'kProcess'],
     ['an unknown distance rule', { distanceRule: '3tnt' }, 'distanceRule'],
+    ['an equipment factor below 3', { equipmentFactor: 2.9 }, 'equipmentFactor'],
+    ['no equipment factor', { equipmentFactor: undefined }, 'equipmentFactor'],
   ])('refuses %s with 400, changing and auditing nothing', async (_label, change, field) => {
     const before = await sql(`SELECT count(*)::int AS n FROM audit_events WHERE club_id = $1 AND action = 'policy.vessels'`, [c.clubId])
     const res = await api('/api/vessel-policy', { method: 'PUT', as: c.safety.cookie, body: { ...STARTING, ...change } })
@@ -51,8 +54,13 @@ describe('the club\'s vessel policy', () => {
       ON CONFLICT (club_id) DO UPDATE SET margin_ratio = 1.2`, [c.clubId])).rejects.toThrow(/check/i)
   })
 
+  it('the database refuses an equipment factor below 3 whatever the code says', async () => {
+    await expect(sql(`INSERT INTO vessel_policies (club_id, equipment_factor) VALUES ($1, 2.5)
+      ON CONFLICT (club_id) DO UPDATE SET equipment_factor = 2.5`, [c.clubId])).rejects.toThrow(/check/i)
+  })
+
   it('saves a change, audits it with before and after, and the rules follow it', async () => {
-    const changed: VesselPolicyDto = { ...STARTING, marginRatio: 2, cureWaitDays: 14, airTestsAllowed: true, distanceRule: '2tnt', kProcess: 0.45 }
+    const changed: VesselPolicyDto = { ...STARTING, marginRatio: 2, cureWaitDays: 14, airTestsAllowed: true, distanceRule: '2tnt', kProcess: 0.45, equipmentFactor: 4 }
     const res = await api<VesselPolicyDto>('/api/vessel-policy', { method: 'PUT', as: c.safety.cookie, body: changed })
     expect(res.status).toBe(200)
     expect(res.body).toEqual(changed)

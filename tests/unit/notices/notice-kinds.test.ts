@@ -33,6 +33,12 @@ function varsFor(baseUrl: string): NoticeVars {
     tierCode: 'T2',
     tierName: 'Reinforced',
     reason: 'Filled above the event cap',
+    eventId: '1c2d3e4f-5a6b-4c7d-8e9f-0a1b2c3d4e5f',
+    eventSite: 'Saltings north flat',
+    fromDate: '2026-05-09',
+    toDate: '2026-05-16',
+    eventDate: '2026-05-09',
+    reasonText: 'Gale forecast',
   }
 }
 
@@ -72,6 +78,18 @@ describe('every notice kind renders subject, text and HTML from the club address
     const moved = composeNotice('training_moved_up', varsFor(BASE), optOutUrl(SECRET, BASE, MEMBER, 'training_moved_up'))
     expect(moved.text).toMatch(/sensitise skin/)
     expect(moved.text).toContain(`${BASE}/training/sessions/`)
+  })
+
+  it('tells registered members of a moved or cancelled launch event, with its site, days and reason', () => {
+    const moved = composeNotice('launch_event_moved', varsFor(BASE))
+    expect(moved.subject).toBe('Moved: the launch at Saltings north flat is now on 16 May 2026')
+    expect(moved.text).toContain('from 9 May 2026 to 16 May 2026')
+    expect(moved.text).toContain(`${BASE}/events/1c2d3e4f-5a6b-4c7d-8e9f-0a1b2c3d4e5f`)
+    const cancelled = composeNotice('launch_event_cancelled', varsFor(BASE))
+    expect(cancelled.subject).toBe('Cancelled: the launch at Saltings north flat on 9 May 2026')
+    expect(cancelled.text).toContain('The reason: Gale forecast')
+    expect(NOTICE_KINDS.launch_event_moved.optional).toBe(false)
+    expect(NOTICE_KINDS.launch_event_cancelled.optional).toBe(false)
   })
 
   it('shows dues dates in words', () => {

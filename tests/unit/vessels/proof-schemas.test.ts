@@ -4,7 +4,7 @@ import { DEFAULT_PROOF_POLICY } from '../../../shared/utils/vessel-arithmetic'
 
 const policy = {
   marginRatio: 1.5, intervalMonths: { ...DEFAULT_PROOF_POLICY.intervalMonths }, fillLimit: { bottle: 10, laminate: 25 },
-  cureWaitDays: 7, airTestsAllowed: false, distanceRule: 'tnt', kProcess: 0.5,
+  cureWaitDays: 7, airTestsAllowed: false, distanceRule: 'tnt', kProcess: 0.5, equipmentFactor: 3,
 }
 
 describe('the proof-test form and route schema', () => {
@@ -34,6 +34,8 @@ describe('the vessel policy schema', () => {
     ['a process factor above 1', { kProcess: 1.2 }, 'kProcess'],
     ['a fractional cure wait', { cureWaitDays: 1.5 }, 'cureWaitDays'],
     ['an unknown distance rule', { distanceRule: '3tnt' }, 'distanceRule'],
+    ['an equipment factor below 3', { equipmentFactor: 2.99 }, 'equipmentFactor'],
+    ['an equipment factor with three decimals', { equipmentFactor: 3.125 }, 'equipmentFactor'],
   ])('refuses %s', (_label, change, field) => {
     const r = VesselPolicySchema.safeParse({ ...policy, ...change })
     expect(r.success).toBe(false)
