@@ -9,7 +9,7 @@ export const FillPassRenewSchema = z.object({
  * A fill-pass token as its address carries it (43 base64url characters). A token of another shape is
  * refused like a forged one (404), not as bad input: whoever scans a stranger's code gets one answer.
  */
-export const FillPassTokenParamSchema = z.object({ token: z.string().max(200) })
+export const FillPassTokenParamSchema = z.object({ token: z.string().max(1000) })
 
 /** The launch event a fill desk is opened for (`GET /api/events/[id]/fill-desk`). */
 export const FillDeskParamSchema = z.object({ id: z.string().uuid().transform(id => id.toLowerCase()) })
