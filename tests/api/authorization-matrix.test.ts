@@ -138,6 +138,8 @@ const MATRIX: Record<string, Row> = {
   'GET /api/verify/[token]': open(404), // no session, only the pass's signed token; an unknown one
   'GET /api/fill-passes/[token]/member': only(404, 'instructor', 'safety'), // fills.record_any; an unknown token
   'GET /api/events/[id]/fill-desk': signedIn(404), // [id] is a membership id here: no such event
+  'POST /api/fills/check': signedIn(400), // a member for their own fills, staff for anyone: the body is checked first
+  'POST /api/fills': signedIn(400),
 }
 
 let subjectId = ''

@@ -368,6 +368,7 @@ export interface VesselOverrides {
   lastLayupOn?: string | null
   volumeL?: number
   db?: string
+  metalInPressurePath?: boolean
 }
 
 /** A vessel owned by `ownerId`, in its owner's club, numbered from the club's counter; awaiting proof unless given. */
@@ -382,6 +383,7 @@ export async function makeVessel(o: VesselOverrides): Promise<{ vesselId: string
   const vesselId = await insertRow('vessels', {
     clubId: m!.club_id, ownerMembershipId: o.ownerId, number: taken!.number, tag, name: o.name ?? `Test vessel ${taken!.number}`,
     construction, volumeL: o.volumeL ?? 2, diameterMm: 102, state: o.state ?? 'awaiting_proof',
+    ...(o.metalInPressurePath ? { metalInPressurePath: true } : {}),
     ...(laminate ? { fibreClass: 'e_glass', arealWeightGPerM2: 300, weave: 'woven_0_90', plies: 3, lastLayupOn: o.lastLayupOn ?? null } : {}),
   }, o.db)
   return { vesselId, tag }

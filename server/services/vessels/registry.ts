@@ -7,9 +7,9 @@ import type { Paged } from '#shared/types/common'
 import { vesselTag } from '#shared/utils/vessel-states'
 import { addCalendarDays } from '#shared/utils/dates'
 import type { Transaction } from 'sequelize'
-import { clubVesselRules, policyIntervalMonths } from './policy'
+import { clubVesselRules, policyFillLimit, policyIntervalMonths } from './policy'
 import { deriveProofStanding, loadProofFacts } from './standing'
-import { VESSEL_CONSTRUCTIONS } from '#shared/utils/vessel-arithmetic'
+import { PROOF_INVALIDATING_EVENTS, VESSEL_CONSTRUCTIONS } from '#shared/utils/vessel-arithmetic'
 
 /** Who is looking at vessels: their club, their membership, and whether they see every member's. */
 export interface VesselViewer {
@@ -172,14 +172,22 @@ export async function listVessels(viewer: VesselViewer, query: VesselListQuery):
   }
   if (query.lapsing) {
     // In service with the last pass current through no later than 30 days from today (or already
-    // past it). PostgreSQL's date + months clamps month ends as the arithmetic does. The fill-count
-    // lapse joins here when the fill log exists (see fillsSinceProof).
-    where.push(`v.state = 'in_service' AND (SELECT (max(p.tested_on) + make_interval(months => CASE v.construction
-      ${VESSEL_CONSTRUCTIONS.map((c, i) => `WHEN '${c}' THEN $interval${i}::int`).join(' ')} END))::date
-      FROM proof_tests p WHERE p.vessel_id = v.id AND p.result = 'pass') <= $lapsingBy::date`)
+    // past it), or already ended by its fill count (allowed fills at events since the pass, the
+    // count deriveProofStanding uses) or by a proof-ending event. PostgreSQL's date + months clamps
+    // month ends as the arithmetic does.
+    where.push(`v.state = 'in_service' AND EXISTS (SELECT 1 FROM (SELECT max(p.tested_on) AS tested_on FROM proof_tests p
+        WHERE p.vessel_id = v.id AND p.result = 'pass') lp
+      WHERE (lp.tested_on + make_interval(months => CASE v.construction
+        ${VESSEL_CONSTRUCTIONS.map((c, i) => `WHEN '${c}' THEN $interval${i}::int`).join(' ')} END))::date <= $lapsingBy::date
+      OR (SELECT count(*) FROM fills f WHERE f.vessel_id = v.id AND f.allowed AND f.held_on >= lp.tested_on) >= CASE v.construction
+        ${VESSEL_CONSTRUCTIONS.map((c, i) => `WHEN '${c}' THEN $fillLimit${i}::int`).join(' ')} END
+      OR EXISTS (SELECT 1 FROM vessel_events e WHERE e.vessel_id = v.id AND e.kind IN (${PROOF_INVALIDATING_EVENTS.map(k => `'${k}'`).join(', ')})
+        AND e.happened_on > lp.tested_on AND e.happened_on <= $today::date))`)
     VESSEL_CONSTRUCTIONS.forEach((c, i) => {
       bind[`interval${i}`] = policyIntervalMonths(rules.policy, c)
+      bind[`fillLimit${i}`] = policyFillLimit(rules.policy, c)
     })
+    bind.today = rules.today
     bind.lapsingBy = addCalendarDays(rules.today, LAPSING_WITHIN_DAYS)
   }
   const q = query.q?.split('\u0000').join('').trim()

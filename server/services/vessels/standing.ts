@@ -58,7 +58,7 @@ export function deriveProofStanding(f: StandingFacts, policy: VesselPolicyDto, t
   const effectiveState = inService && standing?.lapsed ? 'retest_due' : f.state
   return {
     effectiveState,
-    ratedFillBar: effectiveState === 'in_service' ? f.lastPass!.ratedFillBar : null,
+    ratedFillBar: effectiveState === 'in_service' ? f.lastPass?.ratedFillBar ?? null : null,
     lastProofOn: f.lastPass?.testedOn ?? null,
     fillsSinceProof: f.lastPass ? f.fillsSinceProof : 0,
     fillsRemaining: inService && standing ? standing.fillsRemaining : null,

@@ -1,0 +1,3 @@
+// The fills domain's public surface: routes and other domains import from here, never from its files.
+export * from './facts'
+export * from './gate'
