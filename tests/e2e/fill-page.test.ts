@@ -51,7 +51,7 @@ async function fillingMember() {
 async function enterFill(page: Page, o: { tag: string, stationName: string, pressureBar: string, waterL: string }) {
   await page.getByTestId('fill-tag').fill(o.tag)
   await page.getByTestId('fill-tag-find').click()
-  await expect.poll(() => page.getByTestId('fill-vessel').textContent()).toContain(o.tag)
+  await expect.poll(() => page.getByTestId('fill-vessel').textContent()).toContain(o.tag.toUpperCase())
   await page.getByTestId(`fill-station-${o.stationName}`).check()
   await page.getByTestId('fill-unit-bar').check()
   await page.getByTestId('fill-pressure').fill(o.pressureBar)
