@@ -50,6 +50,8 @@ export interface FillerOptions extends MemberOverrides {
   courses?: string[]
   /** The vessel's proof pressure (default 15 bar at margin 1.5: rated 10 bar), or null for no proof. */
   proofBar?: number | null
+  /** Days since the proof (default 20). */
+  proofDaysAgo?: number
   vesselState?: 'awaiting_proof' | 'in_service' | 'quarantined' | 'failed' | 'retired'
   metalInPressurePath?: boolean
   volumeL?: number
@@ -58,12 +60,12 @@ export interface FillerOptions extends MemberOverrides {
 
 /** A member of `club` who may fill their vessel at today's event up to 10 bar, unless the options say otherwise. */
 export async function filler(club: FillClub, o: FillerOptions = {}): Promise<Filler> {
-  const { rank = 2, courses = ['pressure_safety', 'rig_operator'], proofBar = 15, vesselState = 'in_service', metalInPressurePath, volumeL, roles = [], ...member } = o
+  const { rank = 2, courses = ['pressure_safety', 'rig_operator'], proofBar = 15, proofDaysAgo = 20, vesselState = 'in_service', metalInPressurePath, volumeL, roles = [], ...member } = o
   const p = await person(club.clubId, roles, member)
   if (rank !== null) await makeTier({ memberId: p.memberId, rank })
   for (const course of courses) await makeTrainingRecord({ memberId: p.memberId, course, trainerId: club.instructor.memberId, trainedOn: clubDay(-10) })
   const { vesselId } = await makeVessel({ ownerId: p.memberId, state: vesselState, metalInPressurePath, volumeL: volumeL ?? 2 })
-  if (proofBar !== null) await makeProofTest({ vesselId, witnessId: club.instructor.memberId, testedOn: clubDay(-20), pressureBar: proofBar })
+  if (proofBar !== null) await makeProofTest({ vesselId, witnessId: club.instructor.memberId, testedOn: clubDay(-proofDaysAgo), pressureBar: proofBar })
   return { ...p, vesselId }
 }
 
@@ -96,4 +98,12 @@ export function record(as: string, body: FillBody) {
 /** The reason codes of a check's answer or of a refused recording. */
 export function codesOf(body: { reasons?: { code: string }[], data?: { reasons?: { code: string }[] } }): string[] {
   return (body.reasons ?? body.data?.reasons ?? []).map(r => r.code)
+}
+
+/** Another event of `club` (today, cap 25 bar unless given) using `stationIds` (default the club's station), staffed by the club's instructor. */
+export async function otherEvent(club: FillClub, o: { heldOn?: string, pressureCapBar?: number, competition?: boolean, stationIds?: string[], staffIds?: string[], cancelled?: boolean } = {}): Promise<string> {
+  const { eventId } = await makeLaunchEvent({
+    createdBy: club.instructor.memberId, stationIds: [club.stationId], staffIds: [club.instructor.memberId], ...o,
+  })
+  return eventId
 }
