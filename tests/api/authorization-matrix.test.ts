@@ -133,6 +133,11 @@ const MATRIX: Record<string, Row> = {
   'GET /api/dues/receipts/[id]': signedIn(404), // [id] is a membership id here: no such receipt
   'GET /api/dues/receipts/[id]/pdf': signedIn(404),
   'PUT /api/dues/members/[id]/plan': only(400, 'admin'),
+  'GET /api/me/fill-pass': signedIn(200), // every member's own pass (issued when none is live)
+  'POST /api/me/fill-pass': signedIn(400), // not confirmed: the pass is not replaced
+  'GET /api/verify/[token]': open(404), // no session, only the pass's signed token; an unknown one
+  'GET /api/fill-passes/[token]/member': only(404, 'instructor', 'safety'), // fills.record_any; an unknown token
+  'GET /api/events/[id]/fill-desk': signedIn(404), // [id] is a membership id here: no such event
   'POST /api/fills/check': signedIn(400), // a member for their own fills, staff for anyone: the body is checked first
   'POST /api/fills': signedIn(400),
   'GET /api/tiers': signedIn(200), // every member reads the club's tier table

@@ -574,3 +574,17 @@ export async function makeFill(o: { eventId: string, stationId: string, memberId
   }, o.db)
   return { fillId }
 }
+
+/**
+ * A fill pass of `memberId` issued `issuedAt` (default now) expiring `expiresAt` (default in 12 months),
+ * replaced `replacedAt` (default live). Its token comes from the test through the pure signing functions.
+ */
+export async function makeFillPass(o: { memberId: string, issuedAt?: When, expiresAt?: When, replacedAt?: When | null, db?: string }): Promise<{ passId: string }> {
+  const [m] = await sql<{ club_id: string }>('SELECT club_id FROM memberships WHERE id = $1', [o.memberId], o.db)
+  if (!m) throw new Error('makeFillPass: no such member')
+  const passId = await insertRow('fill_passes', {
+    clubId: m.club_id, membershipId: o.memberId, issuedAt: o.issuedAt ?? ago('1 day'), expiresAt: o.expiresAt ?? fromNow('12 months'),
+    replacedAt: o.replacedAt ?? undefined,
+  }, o.db)
+  return { passId }
+}
