@@ -23,7 +23,8 @@ export const STARTING_VESSEL_POLICY: VesselPolicyDto = {
 /** The policy columns of `vessel_policies p` that `toPolicyDto` reads (NULL throughout without a row). */
 export const POLICY_COLUMNS_SQL = `p.margin_ratio, p.interval_months_single_bottle, p.interval_months_spliced_bottles,
       p.interval_months_overwrapped_liner, p.interval_months_mandrel_tube, p.interval_months_other,
-      p.fill_limit_bottle, p.fill_limit_laminate, p.cure_wait_days, p.air_tests_allowed, p.distance_rule, p.k_process`
+      p.fill_limit_bottle, p.fill_limit_laminate, p.cure_wait_days, p.air_tests_allowed, p.distance_rule, p.k_process,
+      p.equipment_factor`
 
 /** A row of POLICY_COLUMNS_SQL. */
 export interface PolicyRow {
@@ -44,8 +45,6 @@ export interface PolicyRow {
 
 /** The policy a row of POLICY_COLUMNS_SQL holds: the starting policy when the club has saved none. */
 export function toPolicyDto(r: PolicyRow): VesselPolicyDto {
-  if (r.margin_ratio === null) return structuredClone(STARTING_VESSEL_POLICY)
-function toPolicyDto(r: PolicyRow): VesselPolicyDto {
   const equipmentFactor = r.equipment_factor === null ? MIN_EQUIPMENT_FACTOR : Number(r.equipment_factor)
   if (r.margin_ratio === null) return { ...structuredClone(STARTING_VESSEL_POLICY), equipmentFactor }
   return {
@@ -79,10 +78,6 @@ export interface ClubVesselRules {
 export async function clubVesselRules(clubId: string, transaction?: Transaction, now = new Date()): Promise<ClubVesselRules | null> {
   const [row] = await useDb().query<PolicyRow & { time_zone: string }>(
     `SELECT c.time_zone, ${POLICY_COLUMNS_SQL}
-  const [row] = await useDb().query<PolicyRow>(
-    `SELECT c.time_zone, p.margin_ratio, p.interval_months_single_bottle, p.interval_months_spliced_bottles,
-      p.interval_months_overwrapped_liner, p.interval_months_mandrel_tube, p.interval_months_other,
-      p.fill_limit_bottle, p.fill_limit_laminate, p.cure_wait_days, p.air_tests_allowed, p.distance_rule, p.k_process, p.equipment_factor
     FROM clubs c LEFT JOIN vessel_policies p ON p.club_id = c.id WHERE c.id = :clubId`,
     { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
   return row ? { policy: toPolicyDto(row), today: dateInZone(now, row.time_zone) } : null
