@@ -7,8 +7,7 @@ import { makeMember } from '../support/factories'
 
 await setupBrowser()
 
-const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-vessel-policy']
-const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-events', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-vessel-policy', 'nav-fill-stations']
+const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-vessel-policy', 'nav-fill-stations']
 
 async function visibleNavItems(page: Page): Promise<string[]> {
   const found: string[] = []
@@ -18,14 +17,10 @@ async function visibleNavItems(page: Page): Promise<string[]> {
 
 describe('navigation per role', () => {
   it.each<[DemoRole, string[]]>([
-    ['member', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers']],
-    ['instructor', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-members']],
-    ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-members', 'nav-audit', 'nav-vessel-policy']],
-    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues']],
-    ['member', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-events']],
-    ['instructor', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-events', 'nav-members', 'nav-fill-stations']],
-    ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-events', 'nav-members', 'nav-audit', 'nav-vessel-policy', 'nav-fill-stations']],
-    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-events', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-fill-stations']],
+    ['member', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events']],
+    ['instructor', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-members', 'nav-fill-stations']],
+    ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-members', 'nav-audit', 'nav-vessel-policy', 'nav-fill-stations']],
+    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-fill-stations']],
   ])('the demo %s account signs in through the form and sees exactly its navigation', async (role, expected) => {
     const page = await createPage('/login')
     try {
