@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { createPage } from '@nuxt/test-utils/e2e'
 import type { Page, Request } from 'playwright-core'
 import { setupBrowser, goTo, submitSignIn, watchPolicyViolations } from '../support/browser'
-import { clubDay, makeFillPass, makeFillStation, makeLaunchEvent, makeMember, makeProofTest, makeTier, makeTrainingRecord, makeVessel, type MadeMember } from '../support/factories'
+import { clubDay, makeFill, makeFillPass, makeFillStation, makeLaunchEvent, makeMember, makeProofTest, makeTier, makeTrainingRecord, makeVessel, type MadeMember } from '../support/factories'
 import { testEnv } from '../support/test-env'
 import { deriveFillPassKey, fillPassToken } from '../../server/services/fill-passes/token'
 import type { FillCheckDto } from '../../shared/types/fills'
@@ -167,8 +167,41 @@ describe('the launch-side fill page (/events/<id>/fill)', () => {
   })
 
   // The real gate (its routes came from branch `gate`): 12 bar is over the T2 cap, 9 bar is allowed.
-  it('end to end: the member\'s fill at 12 bar is refused with the tier\'s cap and at 9 bar allowed', async () => {
-    const { member, vessel, station, eventId } = await fillingMember()
+  it('the whole journey: an instructor signs a member off for T2; the member\'s fill at 12 bar is refused for the tier\'s cap, at 9 bar recorded; the verify page of the member\'s pass shows T2', async () => {
+    // The member meets every T2 prerequisite (T1 held 4 months, the test-rig course, 10 logged fills of
+    // which 5 supervised) but holds only T1; the instructor holds T3, so may sign off T2.
+    const safety = await makeMember({ roles: ['safety_officer'] })
+    const instructor = await makeMember({ roles: ['instructor'] })
+    await makeTier({ memberId: instructor.memberId, rank: 3, assessorId: safety.memberId, signedOn: clubDay(-40) })
+    const member = await makeMember({ name: 'Tamsin Twotier', birthDate: '1988-03-14', acceptWaiver: true })
+    await makeTier({ memberId: member.memberId, rank: 1, assessorId: instructor.memberId, signedOn: clubDay(-130) })
+    for (const course of ['safety_briefing', 'pressure_safety', 'rig_operator']) {
+      await makeTrainingRecord({ memberId: member.memberId, course, trainerId: instructor.memberId, trainedOn: clubDay(-30) })
+    }
+    const vessel = await makeVessel({ ownerId: member.memberId, state: 'in_service', name: 'Tern', volumeL: 2 })
+    const station = await makeFillStation({ name: `Launcher ${vessel.tag}` })
+    const past = await makeLaunchEvent({ createdBy: safety.memberId, heldOn: clubDay(-60), stationIds: [station.stationId], staffIds: [instructor.memberId] })
+    for (let i = 0; i < 10; i++) {
+      await makeFill({ eventId: past.eventId, stationId: station.stationId, memberId: member.memberId, vesselId: vessel.vesselId, supervisorId: i < 5 ? instructor.memberId : undefined, pressureBar: 5 })
+    }
+    // Proof at 21 bar with the margin 1.5 after those fills: a rated fill of 14 bar, above T2's 10 bar.
+    await makeProofTest({ vesselId: vessel.vesselId, witnessId: instructor.memberId, testedOn: clubDay(-10), pressureBar: 21 })
+    const { eventId } = await makeLaunchEvent({ createdBy: safety.memberId, stationIds: [station.stationId], registeredIds: [member.memberId], staffIds: [instructor.memberId], site: 'Salt flat' })
+
+    const assessor = await createPage('/login')
+    try {
+      await submitSignIn(assessor, instructor.email, instructor.password)
+      await assessor.waitForURL(url => url.pathname === '/')
+      await goTo(assessor, `/members/${member.memberId}`)
+      await assessor.getByTestId('tier-grant-rank').selectOption('2')
+      await assessor.getByTestId('tier-grant-submit').click()
+      await assessor.getByTestId('tier-2').waitFor()
+      expect(await assessor.getByTestId('tier-2').textContent()).toMatch(/T2/)
+    }
+    finally {
+      await assessor.close()
+    }
+
     const page = await phonePage(member)
     try {
       await goTo(page, `/events/${eventId}/fill`)
@@ -181,6 +214,19 @@ describe('the launch-side fill page (/events/<id>/fill)', () => {
       await page.getByTestId('fill-record').click()
       await expect.poll(() => page.getByTestId('fill-verdict-word').textContent()).toBe('GO')
       await page.getByTestId('fill-recorded').waitFor()
+
+      await goTo(page, '/fill-pass')
+      await page.getByTestId('fill-pass-qr').waitFor()
+      const path = new URL((await page.getByTestId('fill-pass-url').textContent() ?? '').trim()).pathname
+      const stranger = await createPage(undefined, PHONE)
+      try {
+        await goTo(stranger, path)
+        expect(await stranger.getByTestId('verify-name').textContent()).toContain('Tamsin Twotier')
+        expect(await stranger.getByTestId('verify-tiers').textContent()).toMatch(/T2\s+Reinforced/)
+      }
+      finally {
+        await stranger.close()
+      }
     }
     finally {
       await page.close()

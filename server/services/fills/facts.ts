@@ -7,11 +7,8 @@ import type { VesselState } from '#shared/utils/vessel-states'
 import { PROOF_INVALIDATING_EVENTS, type DistanceRule, type ProofInvalidatingEvent, type VesselConstruction } from '#shared/utils/vessel-arithmetic'
 import { DEFAULT_JUNIOR_CAP_RANK, highestValidRank, juniorForTiers, type TierRank } from '#shared/utils/tier-rules'
 import { courseStanding, isCurrentStanding } from '#shared/utils/training-validity'
-import { addCalendarMonths } from '#shared/utils/dates'
+import { gaugeCurrentThrough, stationLaunchLimitBar } from '#shared/utils/event-rules'
 import type { FillGateFacts } from '#shared/utils/fill-gate'
-
-/** The equipment factor of a club without a vessel policy row (the column's default; never below 3). */
-export const DEFAULT_EQUIPMENT_FACTOR = 3
 
 interface HeldTierRow { membership_id: string, rank: TierRank, expires_on: string, suspended: boolean, revoked: boolean }
 
@@ -45,7 +42,6 @@ interface FillFactsRow extends PolicyRow {
   gauge_interval_months: number | null
   station_at_event: boolean | null
   caller_on_staff: boolean
-  equipment_factor: string | null
   junior_cap_rank: number | null
 }
 
@@ -112,7 +108,7 @@ SELECT
   st.lowest_part_rating_bar AS rating_bar, st.gauge_calibrated_on::text AS gauge_calibrated_on, st.gauge_interval_months,
   (st.retired_at IS NULL AND EXISTS (SELECT 1 FROM launch_event_stations les WHERE les.event_id = ev.id AND les.station_id = st.id)) AS station_at_event,
   EXISTS (SELECT 1 FROM launch_event_staff s WHERE s.event_id = ev.id AND s.membership_id = :callerId) AS caller_on_staff,
-  p.equipment_factor, p.junior_cap_rank, ${POLICY_COLUMNS_SQL}
+  p.junior_cap_rank, ${POLICY_COLUMNS_SQL}
 FROM (SELECT 1) one
 LEFT JOIN LATERAL (
   SELECT m.id, ${statusCaseSql({ today: ':today', graceDays: ':graceDays' })} AS status, m.birth_date::text AS birth_date,
@@ -160,7 +156,6 @@ export async function gatherFillFacts(s: FillSubject, transaction?: Transaction)
       volumeL: Number(r.volume_l),
     }
   }
-  const factor = r.equipment_factor === null ? DEFAULT_EQUIPMENT_FACTOR : Number(r.equipment_factor)
   return {
     member: r.member_found
       ? {
@@ -181,8 +176,8 @@ export async function gatherFillFacts(s: FillSubject, transaction?: Transaction)
     station: r.rating_bar
       ? {
           atEvent: !!r.station_at_event,
-          launchLimitBar: Number(r.rating_bar) / factor,
-          gaugeCurrentThrough: addCalendarMonths(r.gauge_calibrated_on!, r.gauge_interval_months!),
+          launchLimitBar: stationLaunchLimitBar(Number(r.rating_bar), policy.equipmentFactor),
+          gaugeCurrentThrough: gaugeCurrentThrough(r.gauge_calibrated_on!, r.gauge_interval_months!),
         }
       : null,
     callerOnStaff: r.caller_on_staff,
