@@ -154,7 +154,11 @@ describe('pressure at full precision', () => {
     expect(codes(facts({ requestedBar: pressureToPa(1000, 'kPa') / PA_PER_BAR }))).toEqual([])
     expect(codes(facts({ requestedBar: pressureToPa(1, 'MPa') / PA_PER_BAR }))).toEqual([])
     const capPsi = 10 * PA_PER_BAR / PA_PER_PSI
+    // NIST SP 811 (2008) App. B.8: 1 psi = 6.894 757 kPa, so 10 bar = 145.0377 psi.
+    expect(capPsi).toBeCloseTo(145.0377, 4)
     expect(codes(facts({ requestedBar: psiBar(capPsi) }))).toEqual([])
+    // 145 psi (the cap rounded down in psi) is allowed; 146 psi (10.07 bar) is not.
+    expect(codes(facts({ requestedBar: psiBar(145) }))).toEqual([])
     expect(codes(facts({ requestedBar: psiBar(Math.floor(capPsi) + 1) }))).toEqual(['TIER_CAP_EXCEEDED'])
   })
   it('never rounds a real excess away: 10.000001 bar is above 10', () => {
