@@ -4,7 +4,7 @@ import type { Page, Request } from 'playwright-core'
 import { setupBrowser, goTo, submitSignIn, watchPolicyViolations } from '../support/browser'
 import { clubDay, makeFill, makeFillPass, makeFillStation, makeLaunchEvent, makeMember, makeProofTest, makeTier, makeTrainingRecord, makeVessel, type MadeMember } from '../support/factories'
 import { testEnv } from '../support/test-env'
-import { deriveFillPassKey, fillPassToken } from '../../server/services/fill-passes/token'
+import { deriveFillPassKey, fillPassToken } from '../../server/services/tiers/fill-pass-token'
 import type { FillCheckDto } from '../../shared/types/fills'
 import { fillReason } from '../../shared/utils/fill-reasons'
 

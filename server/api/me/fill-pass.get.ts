@@ -1,4 +1,4 @@
-import { myFillPass } from '../../services/fill-passes'
+import { myFillPass } from '../../services/tiers'
 
 /** The member's fill pass: its verify address, expiry and QR code (issued now when none is live). */
 export default defineEventHandler(async (event) => {

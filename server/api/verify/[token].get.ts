@@ -1,5 +1,5 @@
 import { FillPassTokenParamSchema } from '#shared/schemas/fill-passes'
-import { refuseFillPass, verifyFillPass } from '../../services/fill-passes'
+import { refuseFillPass, verifyFillPass } from '../../services/tiers'
 
 /**
  * A fill pass as anyone who scans it sees it, without signing in: name, valid tiers and whether the

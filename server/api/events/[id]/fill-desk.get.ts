@@ -1,5 +1,5 @@
 import { FillDeskParamSchema } from '#shared/schemas/fill-passes'
-import { fillDesk } from '../../../services/fill-desk'
+import { fillDesk } from '../../../services/fills'
 
 /**
  * The launch-side fill page's facts for one event: the event, its fill stations and (for its staff)

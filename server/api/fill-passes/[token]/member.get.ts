@@ -1,5 +1,5 @@
 import { FillPassTokenParamSchema } from '#shared/schemas/fill-passes'
-import { fillPassMember, refuseFillPass } from '../../../services/fill-passes'
+import { fillPassMember, refuseFillPass } from '../../../services/tiers'
 
 /** The member behind a scanned fill pass of this club, for the staff at the launch table (fills.record_any). */
 export default defineEventHandler(async (event) => {

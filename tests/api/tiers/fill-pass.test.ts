@@ -4,7 +4,7 @@ import { api } from '../../support/http'
 import { ago, clubDay, fromNow, makeClub, makeFillPass, makeMember, makeTier, type MadeMember } from '../../support/factories'
 import { signIn } from '../../support/global-setup'
 import { testEnv } from '../../support/test-env'
-import { deriveFillPassKey, fillPassToken } from '../../../server/services/fill-passes/token'
+import { deriveFillPassKey, fillPassToken } from '../../../server/services/tiers/fill-pass-token'
 import type { FillPassDto, FillPassVerifyDto } from '../../../shared/types/fill-passes'
 
 // The test server's session secret signs the passes; the tests sign their own tokens with it only to

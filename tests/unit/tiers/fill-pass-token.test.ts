@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { deriveFillPassKey, FILL_PASS_TOKEN_LENGTH, fillPassToken, readFillPassToken } from '../../../server/services/fill-passes/token'
+import { deriveFillPassKey, FILL_PASS_TOKEN_LENGTH, fillPassToken, readFillPassToken } from '../../../server/services/tiers/fill-pass-token'
 import { deriveOptOutKey } from '../../../server/services/notices/opt-out'
 import { formatPermittedMax, tagFromScan, tokenFromScan } from '../../../shared/utils/fill-desk'
 
