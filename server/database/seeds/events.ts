@@ -19,7 +19,7 @@ interface DemoStation { name: string, description: string, ratingBar: number, ga
 // Three launchers; the brass one's gauge is past its calibration (calibrated 13 months ago, every 12).
 const STATIONS: DemoStation[] = [
   { name: 'Launcher A, north pad', description: 'Clamp launcher, braided hose, regulator on the cylinder.', ratingBar: 60, gauge: 'Gauge A (0–40 bar)', calibratedMonthsAgo: 3, intervalMonths: 12 },
-  { name: 'Launcher B, quick-release rig', description: 'Gardena-style quick release, foot pump or cylinder.', ratingBar: 45, gauge: 'Gauge B (0–25 bar)', calibratedMonthsAgo: 11, intervalMonths: 12 },
+  { name: 'Launcher B, quick-release rig', description: 'Hose-tail quick release, foot pump or cylinder.', ratingBar: 45, gauge: 'Gauge B (0–25 bar)', calibratedMonthsAgo: 11, intervalMonths: 12 },
   { name: 'Old brass launcher', description: 'The club\'s first launcher, kept for demonstrations.', ratingBar: 36, gauge: 'Brass gauge (0–16 bar)', calibratedMonthsAgo: 13, intervalMonths: 12 },
 ]
 
