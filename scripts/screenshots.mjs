@@ -27,6 +27,11 @@ const SHOTS = [
   { who: 'member@hoopwise.example', path: '/training', name: 'training' },
   { who: 'member@hoopwise.example', path: '/workshop', name: 'workshop' },
   { who: 'admin@hoopwise.example', path: '/dues/payments', name: 'payments' },
+  { who: 'safety@hoopwise.example', path: '/tiers', name: 'tiers' },
+  { who: 'member@hoopwise.example', path: '/events', name: 'events' },
+  { who: 'safety@hoopwise.example', path: '/fill-stations', name: 'fill-stations' },
+  { who: 'member@hoopwise.example', path: '/fill-pass', name: 'fill-pass' },
+  { who: 'member@hoopwise.example', path: '/fills', name: 'fills' },
 ]
 
 mkdirSync(outDir, { recursive: true })

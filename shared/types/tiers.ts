@@ -4,6 +4,8 @@ import type { TierGap, TierLevel, TierRank, TierState } from '../utils/tier-rule
 export interface TierTableDto {
   levels: TierLevel[]
   juniorCapRank: number
+  /** The club's courses a tier may require, by code with their names. */
+  courses: { code: string, name: string }[]
 }
 
 /** One sign-off of a held tier: a grant, a renewal or the club's initial T4. */

@@ -33,7 +33,7 @@ interface DemoSession {
 const daysAgo = (n: number) => (today: string) => addCalendarDays(today, -n)
 
 // Past sessions give the demo accounts their records (nobody trains themselves): the demo member is
-// current in composite handling and pressure safety, with a fit test expiring within 30 days; the
+// current in composite handling, pressure safety and the rig (its T2 needs it), with a fit test expiring within 30 days; the
 // instructor and the safety officer are current in composite handling, the fit test and the rig.
 const DEMO_SESSIONS: DemoSession[] = [
   { course: 'composite_ppe', day: daysAgo(100), instructor: INSTRUCTOR, place: 'Workshop, laminating bay', capacity: 8, trained: [MEMBER, SAFETY] },
@@ -42,7 +42,7 @@ const DEMO_SESSIONS: DemoSession[] = [
   // Twelve months back and 20 days on: it expires 20 days from the seed date.
   { course: 'respirator_fit', day: today => addCalendarDays(addCalendarMonths(today, -12), 20), instructor: SAFETY, place: 'Workshop, sanding booth', capacity: 4, trained: [MEMBER] },
   { course: 'respirator_fit', day: daysAgo(60), instructor: ODILE, place: 'Workshop, sanding booth', capacity: 4, trained: [INSTRUCTOR, SAFETY] },
-  { course: 'rig_operator', day: daysAgo(120), instructor: ODILE, place: 'Test bay, hydrostatic rig', capacity: 6, trained: [INSTRUCTOR, SAFETY] },
+  { course: 'rig_operator', day: daysAgo(120), instructor: ODILE, place: 'Test bay, hydrostatic rig', capacity: 6, trained: [MEMBER, INSTRUCTOR, SAFETY] },
   // Upcoming and full, with two members waiting.
   { course: 'composite_ppe', day: today => addCalendarDays(today, 10), instructor: INSTRUCTOR, place: 'Workshop, laminating bay', capacity: 4,
     enrolled: [VESNA, WREN, XANTHE, YESTIN], waiting: [ZILLAH, AUBREY] },

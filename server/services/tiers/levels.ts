@@ -45,13 +45,15 @@ function toLevel(r: LevelRow): TierLevel {
  * the starting cap). `db` lets the command line read it outside the server.
  */
 export async function loadTierTable(clubId: string, transaction?: Transaction, db: Sequelize = useDb()): Promise<TierTableDto> {
-  const [levels, cap] = await Promise.all([
+  const [levels, cap, courses] = await Promise.all([
     db.query<LevelRow>(`SELECT ${LEVEL_COLUMNS} FROM tier_levels WHERE club_id = :clubId ORDER BY rank`,
       { replacements: { clubId }, type: QueryTypes.SELECT, transaction }),
     db.query<{ junior_cap_rank: number }>('SELECT junior_cap_rank FROM vessel_policies WHERE club_id = :clubId',
       { replacements: { clubId }, type: QueryTypes.SELECT, transaction }),
+    db.query<{ code: string, name: string }>('SELECT code, name FROM courses WHERE club_id = :clubId ORDER BY name',
+      { replacements: { clubId }, type: QueryTypes.SELECT, transaction }),
   ])
-  return { levels: levels.map(toLevel), juniorCapRank: cap[0]?.junior_cap_rank ?? DEFAULT_JUNIOR_CAP_RANK }
+  return { levels: levels.map(toLevel), juniorCapRank: cap[0]?.junior_cap_rank ?? DEFAULT_JUNIOR_CAP_RANK, courses }
 }
 
 /** One tier of club `clubId`'s table, or null. */
@@ -70,6 +72,11 @@ export async function updateTierTable(actor: Actor, input: TierTableInput): Prom
   const clubId = actor.club.id
   return inTransaction(async (transaction) => {
     const before = await loadTierTable(clubId, transaction)
+    const known = new Set(before.courses.map(c => c.code))
+    const unknown = [...new Set(input.levels.flatMap(l => l.requiredCourseCodes))].filter(code => !known.has(code))
+    if (unknown.length) {
+      refuse({ code: 'UNKNOWN_COURSE', message: `No course of the club has the code ${unknown.join(', ')}; the codes are ${[...known].join(', ')}.` })
+    }
     for (const l of input.levels) {
       await useDb().query(
         `UPDATE tier_levels SET name = :name, fill_cap_bar = :fillCapBar, validity_months = :validityMonths,

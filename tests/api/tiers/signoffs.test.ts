@@ -187,7 +187,18 @@ describe('the tier table', () => {
     const [audit] = await sql<{ before: TierTableDto, after: TierTableDto }>(`SELECT before, after FROM audit_events WHERE club_id = $1 AND action = 'policy.tiers'`, [c.clubId])
     expect(audit!.before.levels[1]!.fillCapBar).toBe(6)
     expect(audit!.after.levels[1]!.fillCapBar).toBe(5)
-    await api('/api/tiers', { method: 'PUT', as: c.safety.cookie, body: table })
+    expect((await api('/api/tiers', { method: 'PUT', as: c.safety.cookie, body: { juniorCapRank: table.juniorCapRank, levels: table.levels } })).status).toBe(200)
+  })
+
+  it('names the club\'s courses, and refuses a course code the club does not have (422, nothing saved)', async () => {
+    const table = (await api<TierTableDto>('/api/tiers', { as: c.safety.cookie })).body
+    expect(table.courses).toContainEqual({ code: 'pressure_safety', name: 'Pressure safety and fill procedure' })
+    const levels = table.levels.map(l => (l.rank === 2 ? { ...l, requiredCourseCodes: ['rig_operator', 'underwater_welding'] } : l))
+    const refused = await api<{ data: { reasons: { code: string, message: string }[] } }>('/api/tiers', { method: 'PUT', as: c.safety.cookie, body: { juniorCapRank: table.juniorCapRank, levels } })
+    expect(refused.status).toBe(422)
+    expect(refused.body.data.reasons[0]).toMatchObject({ code: 'UNKNOWN_COURSE', message: expect.stringContaining('underwater_welding') })
+    const after = (await api<TierTableDto>('/api/tiers', { as: c.safety.cookie })).body
+    expect(after.levels[2]!.requiredCourseCodes).toEqual(table.levels[2]!.requiredCourseCodes)
   })
 })
 
