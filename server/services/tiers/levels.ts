@@ -108,7 +108,8 @@ export async function updateTierTable(actor: Actor, input: TierTableInput): Prom
     const after = await loadTierTable(clubId, transaction)
     await recordAudit(actor, clubId, {
       action: 'policy.tiers', subjectType: 'tier_levels', subjectId: clubId,
-      before: before as unknown as Record<string, unknown>, after: after as unknown as Record<string, unknown>,
+      // The table and the junior cap only: the club's course list is not what was edited.
+      before: { levels: before.levels, juniorCapRank: before.juniorCapRank }, after: { levels: after.levels, juniorCapRank: after.juniorCapRank },
     }, transaction)
     return after
   }, { uniqueMessage: 'Each tier needs a name of its own.' })
