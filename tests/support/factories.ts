@@ -588,3 +588,22 @@ export async function makeFillPass(o: { memberId: string, issuedAt?: When, expir
   }, o.db)
   return { passId }
 }
+
+// ---------------------------------------------------------------------------------------------
+// Incidents.
+
+/**
+ * An incident of `reportedBy`'s club (default a near miss an hour ago, open), linked to `vesselId`,
+ * `eventId` and the members `peopleIds` when given; straight into the tables (no quarantine).
+ */
+export async function makeIncident(o: { reportedBy: string, kind?: 'burst' | 'uncommanded_launch' | 'injury' | 'near_miss' | 'other', vesselId?: string, eventId?: string, peopleIds?: string[], injuryDetails?: string, closed?: boolean, happenedAt?: When, db?: string }): Promise<{ incidentId: string }> {
+  const [m] = await sql<{ club_id: string }>('SELECT club_id FROM memberships WHERE id = $1', [o.reportedBy], o.db)
+  const clubId = m!.club_id
+  const incidentId = await insertRow('incidents', {
+    clubId, reportedByMembershipId: o.reportedBy, kind: o.kind ?? 'near_miss', happenedAt: o.happenedAt ?? ago('1 hour'), place: 'North flat',
+    eventId: o.eventId ?? null, vesselId: o.vesselId ?? null, whatHappened: 'Made in a test', injuryDetails: o.injuryDetails ?? null,
+    ...(o.closed ? { status: 'closed', closedAt: NOW, closedByMembershipId: o.reportedBy } : {}),
+  }, o.db)
+  for (const id of o.peopleIds ?? []) await sql('INSERT INTO incident_people (incident_id, club_id, membership_id) VALUES ($1, $2, $3)', [incidentId, clubId, id], o.db)
+  return { incidentId }
+}
