@@ -61,7 +61,7 @@ export async function reportIncident(actor: Actor, input: IncidentReportInput): 
     await recordAudit(actor, clubId, {
       action: 'incident.report', subjectType: 'incident', subjectId: incidentId, before: null,
       // People by id only, and never the injury's personal details: the trail is kept for good.
-      after: { kind: input.kind, happenedAt: happenedAt.toISOString(), eventId: input.eventId ?? null, vesselId, vesselQuarantined: vessel?.quarantined ?? false, peopleIds: input.peopleIds },
+      after: { kind: input.kind, happenedAt: happenedAt.toISOString(), incidentEventId: input.eventId ?? null, incidentVesselId: vesselId, vesselQuarantined: vessel?.quarantined ?? false, peopleIds: input.peopleIds },
     }, transaction)
     await queueIncidentReported(actor, { id: incidentId, kind: input.kind, place: input.place, happenedAt, vesselTag: vesselId ? input.vesselTag ?? null : null }, transaction)
     return incidentId

@@ -24,11 +24,12 @@ async function openIncident(actor: Actor, id: string, transaction: Transaction) 
 export async function reviewIncident(actor: Actor, id: string, input: IncidentReviewInput): Promise<IncidentDto> {
   await inTransaction(async (transaction) => {
     await openIncident(actor, id, transaction)
-    const set = { review_notes: input.reviewNotes, findings: input.findings, actions: input.actions }
-    const changed = Object.entries(set).filter(([, v]) => v !== undefined)
-    await useDb().query(`UPDATE incidents SET ${changed.map(([k]) => `${k} = :${k}`).join(', ')}, updated_at = now() WHERE id = :id`,
-      { replacements: { id, ...Object.fromEntries(changed) }, transaction })
-    await recordAudit(actor, actor.club.id, { action: 'incident.review', subjectType: 'incident', subjectId: id, after: { fields: changed.map(([k]) => k) } }, transaction)
+    const columns = { reviewNotes: 'review_notes', findings: 'findings', actions: 'actions' } as const
+    const changed = (Object.keys(columns) as (keyof typeof columns)[]).filter(k => input[k] !== undefined)
+    await useDb().query(`UPDATE incidents SET ${changed.map(k => `${columns[k]} = :${k}`).join(', ')}, updated_at = now() WHERE id = :id`,
+      { replacements: { id, ...Object.fromEntries(changed.map(k => [k, input[k]])) }, transaction })
+    // Which fields changed, never their text (the audit trail is kept for good).
+    await recordAudit(actor, actor.club.id, { action: 'incident.review', subjectType: 'incident', subjectId: id, after: { changed } }, transaction)
   })
   return incidentOr404(actor, id)
 }
