@@ -17,7 +17,9 @@ beforeAll(async () => {
 })
 
 const hourAgo = () => new Date(Date.now() - 3_600_000).toISOString()
-const report = (who: Person, body: Record<string, unknown>) => api<IncidentDto>('/api/incidents', {
+/** An incident as answered, or a refusal's body. */
+type Answer = IncidentDto & { data?: { reasons?: { code: string }[] } }
+const report = (who: Person, body: Record<string, unknown>) => api<Answer>('/api/incidents', {
   method: 'POST', as: who.cookie, body: { kind: 'near_miss', happenedAt: hourAgo(), place: 'North pad', whatHappened: 'The release let go early.', ...body },
 })
 const read = (who: Person, id: string) => api<IncidentDto>(`/api/incidents/${id}`, { as: who.cookie })
@@ -118,7 +120,7 @@ describe('the safety officer\'s review', () => {
     const { vesselId, tag } = await makeVessel({ ownerId: involved.memberId, state: 'in_service' })
     const { body: incident } = await report(bystander, { kind: 'uncommanded_launch', vesselTag: tag, peopleIds: [involved.memberId] })
     const id = incident.id
-    const put = (who: Person, body: unknown) => api<IncidentDto>(`/api/incidents/${id}/review`, { method: 'PUT', as: who.cookie, body })
+    const put = (who: Person, body: unknown) => api<Answer>(`/api/incidents/${id}/review`, { method: 'PUT', as: who.cookie, body })
     const post = (who: Person, path: string, body: unknown) => api(`/api/incidents/${id}/${path}`, { method: 'POST', as: who.cookie, body })
 
     expect((await put(bystander, { findings: 'Mine' })).status).toBe(403)
