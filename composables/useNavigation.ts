@@ -14,6 +14,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/workshop', label: 'Workshop', testId: 'nav-workshop' },
   { to: '/tiers', label: 'Pressure tiers', testId: 'nav-tiers' },
   { to: '/events', label: 'Launch events', testId: 'nav-events' },
+  { to: '/incidents', label: 'Incidents', testId: 'nav-incidents' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
   { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
   { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },

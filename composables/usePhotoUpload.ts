@@ -40,10 +40,11 @@ export function usePhotoUpload() {
     })
   }
 
-  async function upload(o: { file: File, purpose: PhotoPurpose, vesselId?: string | null, caption?: string }): Promise<PhotoDto> {
+  async function upload(o: { file: File, purpose: PhotoPurpose, vesselId?: string | null, incidentId?: string | null, caption?: string }): Promise<PhotoDto> {
     const form = new FormData()
     form.append('purpose', o.purpose)
     if (o.vesselId) form.append('vesselId', o.vesselId)
+    if (o.incidentId) form.append('incidentId', o.incidentId)
     if (o.caption?.trim()) form.append('caption', o.caption.trim())
     form.append('file', o.file)
     progress.value = 0

@@ -1,7 +1,7 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize'
 
-/** What a photo shows: a build stage of a vessel, the gauge at a proof test, or a burst coupon. */
-export type PhotoPurpose = 'build' | 'gauge' | 'coupon'
+/** What a photo shows: a build stage of a vessel, the gauge at a proof test, a burst coupon, or an incident. */
+export type PhotoPurpose = 'build' | 'gauge' | 'coupon' | 'incident'
 
 /**
  * A stored photo: the row says whose it is and what was stored; the bytes live in the uploads
@@ -11,6 +11,7 @@ export class Photo extends Model {
   declare id: string
   declare clubId: string
   declare vesselId: string | null
+  declare incidentId: string | null
   declare uploadedByMembershipId: string
   declare purpose: PhotoPurpose
   declare contentType: 'image/jpeg' | 'image/png' | 'image/webp'
@@ -25,6 +26,7 @@ export class Photo extends Model {
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       clubId: { type: DataTypes.UUID, allowNull: false },
       vesselId: { type: DataTypes.UUID, allowNull: true },
+      incidentId: { type: DataTypes.UUID, allowNull: true },
       uploadedByMembershipId: { type: DataTypes.UUID, allowNull: false },
       purpose: { type: DataTypes.TEXT, allowNull: false },
       contentType: { type: DataTypes.TEXT, allowNull: false },

@@ -12,6 +12,7 @@ import { useDb } from './db'
 //   3. the club's vessel counter, then a vessel               takeVesselNumber, lockVessel
 //   4. training session, or booking                          lockTrainingSession, lockBooking
 //      or launch event                                      lockLaunchEvent
+//      or incident                                          lockIncident
 //   5. payment, then the receipt counter                     lockPayment, takeReceiptNumber
 //   6. one-time links (action_tokens), notices, sessions     lockNotice; links and sessions are
 //                                                            updated in place after 1–2
@@ -135,6 +136,18 @@ export async function takeReceiptNumber(clubId: string, transaction: Transaction
 export async function lockLaunchEvent(clubId: string, id: string, transaction: Transaction): Promise<{ held_on: string, cancelled_at: Date | null } | undefined> {
   const [row] = await useDb().query<{ held_on: string, cancelled_at: Date | null }>(
     'SELECT held_on::text AS held_on, cancelled_at FROM launch_events WHERE id = :id AND club_id = :clubId FOR UPDATE',
+    { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
+  return row
+}
+
+/**
+ * Locks incident `id` of club `clubId` FOR UPDATE (step 4) and returns what a review, a closing or a
+ * suspension from the incident page decides on, or undefined: two officers closing one incident at once
+ * close it once and e-mail the reporter once.
+ */
+export async function lockIncident(clubId: string, id: string, transaction: Transaction): Promise<{ status: 'open' | 'closed', reported_by_membership_id: string } | undefined> {
+  const [row] = await useDb().query<{ status: 'open' | 'closed', reported_by_membership_id: string }>(
+    'SELECT status, reported_by_membership_id FROM incidents WHERE id = :id AND club_id = :clubId FOR UPDATE',
     { replacements: { id, clubId }, type: QueryTypes.SELECT, transaction })
   return row
 }

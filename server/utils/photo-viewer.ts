@@ -11,6 +11,7 @@ export function photoViewerOf(actor: Actor): PhotoViewer {
     readAll: actorCan(actor, 'vessels.read_all'),
     witness: actorCan(actor, 'vessels.witness'),
     officer: actorCan(actor, 'vessels.quarantine'),
+    incidentsAll: actorCan(actor, 'incidents.review') || actorCan(actor, 'audit.read'),
   }
 }
 

@@ -61,6 +61,10 @@ export const AUDIT_ACTIONS = [
   'event.update',
   'event.cancel',
   'event.walk_in',
+  'incident.report',
+  'incident.review',
+  'incident.close',
+  'incident.suspend_tier',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -114,6 +118,10 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'event.update': { label: 'Changed a launch event', meaning: 'A safety officer or admin changed a launch event; a new day e-mailed every registered member.' },
   'event.cancel': { label: 'Cancelled a launch event', meaning: 'A safety officer or admin cancelled a launch event; every registered member was e-mailed the reason.' },
   'event.walk_in': { label: 'Added a walk-in', meaning: 'A member of the event\'s staff added a member on the day who had not registered.' },
+  'incident.report': { label: 'Reported an incident', meaning: 'A member reported a burst, uncommanded launch, injury, near miss or other incident; a vessel it names was quarantined at once.' },
+  'incident.review': { label: 'Reviewed an incident', meaning: 'The safety officer changed an incident\'s review notes, findings or actions.' },
+  'incident.close': { label: 'Closed an incident', meaning: 'The safety officer closed an incident with its outcome; a quarantined vessel stays quarantined until released.' },
+  'incident.suspend_tier': { label: 'Suspended a tier over an incident', meaning: 'The safety officer suspended the pressure tier of a person involved, from the incident page.' },
 }
 
 /** Whether `action` is one the server records. */
@@ -144,6 +152,7 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   tier_levels: 'The club\'s tier table',
   fill_station: 'A fill station',
   launch_event: 'A launch event',
+  incident: 'An incident',
 }
 
 /** The words for what an event is about, or the subject type itself when it has none. */

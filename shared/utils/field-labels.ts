@@ -4,6 +4,15 @@
  * label shows its name; tests/api/audit-words.test.ts checks every field the audit trail records has one.
  */
 export const FIELD_LABELS: Record<string, string> = {
+  // Incidents
+  happenedAt: 'Happened at',
+  incidentEventId: 'Launch event',
+  incidentVesselId: 'Vessel',
+  vesselQuarantined: 'Vessel quarantined',
+  peopleIds: 'People involved',
+  reviewNotes: 'Review notes',
+  findings: 'Findings',
+  actions: 'Actions',
   // Pressure tiers
   rank: 'Tier',
   tierState: 'Tier state',

@@ -167,6 +167,12 @@ const MATRIX: Record<string, Row> = {
   'GET /api/events/[id]/fills/export': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/events/[id]/roster': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/me/fills': signedIn(200), // the member's own
+  'GET /api/incidents': signedIn(200), // officers all, anyone else their own reports
+  'POST /api/incidents': signedIn(400), // any signed-in member reports
+  'GET /api/incidents/[id]': signedIn(404), // [id] is a membership id here: no such incident
+  'PUT /api/incidents/[id]/review': only(400, 'safety'), // incidents.review
+  'POST /api/incidents/[id]/close': only(400, 'safety'),
+  'POST /api/incidents/[id]/suspensions': only(400, 'safety'), // incidents.review and tiers.suspend
 }
 
 let subjectId = ''

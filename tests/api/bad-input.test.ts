@@ -62,6 +62,7 @@ async function footprint(): Promise<string> {
     sql('SELECT * FROM action_tokens WHERE user_id = ANY($1) ORDER BY id', [users]),
     sql('SELECT * FROM audit_events WHERE actor_membership_id = ANY($1) OR subject_id = ANY($1) ORDER BY id', [ids]),
     sql('SELECT * FROM waivers WHERE published_by = ANY($1) ORDER BY id', [ids]),
+    sql('SELECT * FROM incidents WHERE reported_by_membership_id = ANY($1) ORDER BY id', [ids]),
     sql(`SELECT count(*) FROM users WHERE length(email) > 200 OR email LIKE '12345%'`),
   ])
   return JSON.stringify(parts)

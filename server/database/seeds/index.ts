@@ -12,6 +12,7 @@ import { seedStations } from './stations'
 import { seedDuesPayments } from './dues'
 import { seedTiers } from './tiers'
 import { seedEvents } from './events'
+import { seedIncidents } from './incidents'
 
 /**
  * The demo club's seed, in order. Each step is idempotent (it finds its records by natural keys
@@ -28,6 +29,7 @@ export const SEED_STEPS: ((ctx: SeedContext) => Promise<void>)[] = [
   seedDuesPayments,
   seedTiers,
   seedEvents,
+  seedIncidents,
 ]
 
 /** Seeds the demo club in one transaction. */

@@ -280,6 +280,29 @@ export const NOTICE_KINDS = {
       `The reason: ${v.reasonText ?? ''}`,
     ], { label: 'See the club\'s events', url: `${v.baseUrl}/events` }),
   },
+  // Safety: the safety officers hear of every incident at once; the e-mail names no personal details.
+  incident_reported: {
+    optional: false,
+    label: 'Incident reported',
+    description: 'Sent to every safety officer of the club when a member reports an incident.',
+    render: v => notice(`Incident reported: ${v.kindLabel ?? 'Incident'} at ${v.place ?? ''} on ${longDate(v.happenedOn)}`, [
+      `Hello ${v.memberName},`,
+      `${v.reporterName ?? 'A member'} reported an incident at ${v.clubName}: ${String(v.kindLabel ?? 'an incident').toLowerCase()} at ${v.place ?? ''} on ${longDate(v.happenedOn)}.`,
+      ...(v.vesselTag ? [`Vessel ${v.vesselTag} was named and is quarantined: no fills until you release it, and then only after a new passing proof test.`] : []),
+      'Review it on the incident page: notes, findings, actions, and the tiers of the people involved.',
+    ], { label: 'Review the incident', url: `${v.baseUrl}/incidents/${v.incidentId ?? ''}` }),
+  },
+  incident_closed: {
+    optional: false,
+    label: 'Incident closed',
+    description: 'Sent to the member who reported an incident when the safety officer closes it.',
+    render: v => notice(`Incident closed: ${v.kindLabel ?? 'Incident'} at ${v.place ?? ''} on ${longDate(v.happenedOn)}`, [
+      `Hello ${v.memberName},`,
+      `The safety officer of ${v.clubName} closed the incident you reported (${String(v.kindLabel ?? 'an incident').toLowerCase()} at ${v.place ?? ''} on ${longDate(v.happenedOn)}). The outcome: ${v.outcome ?? ''}`,
+      'A vessel quarantined over it stays quarantined until the safety officer releases it, and then needs a new passing proof test.',
+      PRESSURE_CAUTION,
+    ], { label: 'See the incident', url: `${v.baseUrl}/incidents/${v.incidentId ?? ''}` }),
+  },
 } satisfies Record<string, NoticeKind>
 
 export type NoticeKindName = keyof typeof NOTICE_KINDS

@@ -22,6 +22,8 @@ export interface PhotoViewer {
   witness: boolean
   /** vessels.quarantine: the safety officer, who may remove any photo. */
   officer: boolean
+  /** incidents.review or audit.read: sees every incident's photos (anyone else, their own reports'). */
+  incidentsAll: boolean
 }
 
 /** The width of a thumbnail in pixels (never enlarged). */
@@ -62,6 +64,13 @@ async function visibleVessel(viewer: PhotoViewer, id: string): Promise<Vessel | 
   return vessel && (viewer.readAll || vessel.ownerMembershipId === viewer.membershipId) ? vessel : null
 }
 
+/** Whether incident `id` of the viewer's club is theirs to see: their own report, or any for the officers. */
+async function visibleIncident(viewer: PhotoViewer, id: string): Promise<boolean> {
+  const rows = await useDb().query('SELECT 1 FROM incidents WHERE id = :id AND club_id = :clubId AND (:all OR reported_by_membership_id = :me)',
+    { replacements: { id, clubId: viewer.clubId, all: viewer.incidentsAll, me: viewer.membershipId }, type: QueryTypes.SELECT })
+  return rows.length > 0
+}
+
 /**
  * Who may add which photo: a build photo, the vessel's owner or a vessels.read_all holder; a gauge
  * photo, the owner or a vessels.witness holder (who records the proof); a coupon photo, any member.
@@ -69,6 +78,10 @@ async function visibleVessel(viewer: PhotoViewer, id: string): Promise<Vessel | 
  */
 async function checkMayAdd(viewer: PhotoViewer, fields: PhotoUploadFields): Promise<void> {
   if (fields.purpose === 'coupon') return
+  if (fields.purpose === 'incident') {
+    if (!(await visibleIncident(viewer, fields.incidentId!))) notFound('No such incident')
+    return
+  }
   const vessel = await visibleVessel(viewer, fields.vesselId!)
   if (!vessel) notFound('No such vessel')
   const owner = vessel.ownerMembershipId === viewer.membershipId
@@ -124,7 +137,8 @@ export async function addPhoto(viewer: PhotoViewer, fields: PhotoUploadFields, u
     const photo = await inTransaction(transaction => Photo.create({
       id,
       clubId: viewer.clubId,
-      vesselId: fields.purpose === 'coupon' ? null : fields.vesselId,
+      vesselId: fields.purpose === 'coupon' || fields.purpose === 'incident' ? null : fields.vesselId,
+      incidentId: fields.purpose === 'incident' ? fields.incidentId : null,
       uploadedByMembershipId: viewer.membershipId,
       purpose: fields.purpose,
       contentType,
@@ -148,6 +162,8 @@ export async function addPhoto(viewer: PhotoViewer, fields: PhotoUploadFields, u
 export async function findVisiblePhoto(viewer: PhotoViewer, id: string): Promise<Photo | null> {
   const photo = await Photo.findOne({ where: { id, clubId: viewer.clubId } })
   if (!photo) return null
+  // An incident's photo is seen by whoever sees the incident (its reporter, the officers): never by vessel.
+  if (photo.incidentId) return (await visibleIncident(viewer, photo.incidentId)) ? photo : null
   if (!photo.vesselId || viewer.readAll) return photo
   return (await visibleVessel(viewer, photo.vesselId)) ? photo : null
 }

@@ -36,8 +36,9 @@ async function queueTierNotice(actor: Actor, membershipId: string, held: HeldTie
  * The safety officer suspends (until reinstated), reinstates or revokes member `membershipId`'s tier
  * `rank` (tiers.suspend), with the reason in the audit trail. A suspension or reinstatement e-mails
  * the member. The member falls back to the highest tier still valid; the answer is their standing.
+ * `also` runs in the same transaction after the change (the incident page records its own step there).
  */
-export async function changeTier(actor: Actor, membershipId: string, rank: TierRank, action: TierAction, reason: string): Promise<MemberTiersDto> {
+export async function changeTier(actor: Actor, membershipId: string, rank: TierRank, action: TierAction, reason: string, also?: (transaction: Transaction) => Promise<void>): Promise<MemberTiersDto> {
   const clubId = actor.club.id
   const today = clubToday(actor.club)
   await inTransaction(async (transaction) => {
@@ -62,6 +63,7 @@ export async function changeTier(actor: Actor, membershipId: string, rank: TierR
       before, after: { rank, tierState: tierState(after, today) }, reason,
     }, transaction)
     if (action !== 'revoke') await queueTierNotice(actor, membershipId, held, action === 'suspend' ? 'tier_suspended' : 'tier_reinstated', reason, transaction)
+    if (also) await also(transaction)
   })
   kickNoticeQueue()
   return (await memberTierStanding(clubId, membershipId, today))!

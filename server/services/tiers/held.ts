@@ -41,11 +41,15 @@ export async function validRankOf(membershipId: string, today: string, transacti
 }
 
 /**
- * Open incidents involving the member: none exist until incidents are recorded. The seam a renewal
- * asks; the incident desk answers it when it arrives.
+ * Open incidents among whose people involved member `membershipId` is named (the reporter alone is
+ * not involved): a renewal waits until the safety officer has closed them.
  */
-export async function openIncidentCount(_membershipId: string, _transaction?: Transaction): Promise<number> {
-  return 0
+export async function openIncidentCount(membershipId: string, transaction?: Transaction): Promise<number> {
+  const [row] = await useDb().query<{ n: number }>(
+    `SELECT count(*)::int AS n FROM incident_people p JOIN incidents i ON i.id = p.incident_id
+      WHERE p.membership_id = :membershipId AND i.status = 'open'`,
+    { replacements: { membershipId }, type: QueryTypes.SELECT, transaction })
+  return row?.n ?? 0
 }
 
 /**

@@ -45,34 +45,56 @@ async function changeVessel(who: VesselActor, vesselId: string, change: Change):
     if (!vessel || (!owner && !who.readAll)) notFound('No such vessel')
     const permitted = change.others === null ? who.quarantine : (owner || who[change.others])
     if (!permitted) throw createError({ statusCode: 403, statusMessage: 'Forbidden', message: 'Only the owner or the safety officer may do this.' })
-    const rules = (await clubVesselRules(clubId, transaction))!
-    const before = await vesselDto(vessel, transaction)
-    const reasons: Reason[] = []
-    const transition = vesselTransition(before.proof.effectiveState, change.action)
-    if (!transition.allowed) reasons.push(transition.reason)
-    const happenedOn = change.happenedOn ?? rules.today
-    if (happenedOn > rules.today) reasons.push({ code: 'EVENT_DATE_IN_FUTURE', message: `Report what has happened (today is ${rules.today}).` })
-    if (change.newLayupOn) {
-      if (!vessel.fibreClass) reasons.push({ code: 'NO_LAMINATE', message: 'Only a vessel with a laminate has a layup date.' })
-      if (change.newLayupOn > rules.today) reasons.push({ code: 'LAYUP_DATE_IN_FUTURE', message: `The new layup date must not be after today (${rules.today}).` })
-    }
-    if (reasons.length || !transition.allowed) refuse(reasons)
-
-    await insertEvent(vessel, { kind: change.kind, happenedOn, reason: change.reason, newLayupOn: change.newLayupOn ?? null, by: who.actor.membership.id }, transaction)
-    await vessel.update({
-      state: transition.to,
-      ...(change.newLayupOn ? { lastLayupOn: change.newLayupOn } : {}),
-      // A held or finished vessel waits for no proof test.
-      ...(transition.to === 'quarantined' || transition.to === 'retired' ? { proofRequestedAt: null } : {}),
-    }, { transaction })
-    await recordAudit(who.actor, clubId, {
-      action: change.audit, subjectType: 'vessel', subjectId: vessel.id,
-      before: { state: before.proof.effectiveState },
-      after: { state: transition.to, kind: change.kind, happenedOn, ...(change.newLayupOn ? { newLayupOn: change.newLayupOn } : {}) },
-      reason: change.reason,
-    }, transaction)
-    return vesselDto(vessel, transaction)
+    return applyChange(who.actor, vessel, change, transaction)
   })
+}
+
+/** Moves locked vessel `vessel` by `change` inside `transaction` (the table decides), logs, audits. */
+async function applyChange(actor: Actor, vessel: Vessel, change: Omit<Change, 'others'>, transaction: Transaction): Promise<VesselDto> {
+  const clubId = vessel.clubId
+  const rules = (await clubVesselRules(clubId, transaction))!
+  const before = await vesselDto(vessel, transaction)
+  const reasons: Reason[] = []
+  const transition = vesselTransition(before.proof.effectiveState, change.action)
+  if (!transition.allowed) reasons.push(transition.reason)
+  const happenedOn = change.happenedOn ?? rules.today
+  if (happenedOn > rules.today) reasons.push({ code: 'EVENT_DATE_IN_FUTURE', message: `Report what has happened (today is ${rules.today}).` })
+  if (change.newLayupOn) {
+    if (!vessel.fibreClass) reasons.push({ code: 'NO_LAMINATE', message: 'Only a vessel with a laminate has a layup date.' })
+    if (change.newLayupOn > rules.today) reasons.push({ code: 'LAYUP_DATE_IN_FUTURE', message: `The new layup date must not be after today (${rules.today}).` })
+  }
+  if (reasons.length || !transition.allowed) refuse(reasons)
+
+  await insertEvent(vessel, { kind: change.kind, happenedOn, reason: change.reason, newLayupOn: change.newLayupOn ?? null, by: actor.membership.id }, transaction)
+  await vessel.update({
+    state: transition.to,
+    ...(change.newLayupOn ? { lastLayupOn: change.newLayupOn } : {}),
+    // A held or finished vessel waits for no proof test.
+    ...(transition.to === 'quarantined' || transition.to === 'retired' ? { proofRequestedAt: null } : {}),
+  }, { transaction })
+  await recordAudit(actor, clubId, {
+    action: change.audit, subjectType: 'vessel', subjectId: vessel.id,
+    before: { state: before.proof.effectiveState },
+    after: { state: transition.to, kind: change.kind, happenedOn, ...(change.newLayupOn ? { newLayupOn: change.newLayupOn } : {}) },
+    reason: change.reason,
+  }, transaction)
+  return vesselDto(vessel, transaction)
+}
+
+/**
+ * An incident report names vessel `vesselId` of club `clubId`: it is quarantined at once, inside the
+ * report's `transaction` (any member reports, so no capability is asked; the vessel need not be the
+ * reporter's). The vessel log keeps an `incident` event. A vessel already quarantined, failed or
+ * retired stays as it is. Takes the vessel's row lock (step 3 of the lock order). Returns the state
+ * the vessel is in afterwards, or null when the club has no such vessel.
+ */
+export async function quarantineForIncident(actor: Actor, clubId: string, vesselId: string, happenedOn: string, reason: string, transaction: Transaction): Promise<{ state: string, quarantined: boolean } | null> {
+  const vessel = await lockVessel(clubId, vesselId, transaction)
+  if (!vessel) return null
+  const before = await vesselDto(vessel, transaction)
+  if (!vesselTransition(before.proof.effectiveState, { kind: 'quarantine' }).allowed) return { state: vessel.state, quarantined: false }
+  const after = await applyChange(actor, vessel, { action: { kind: 'quarantine' }, kind: 'incident', audit: 'vessel.quarantine', happenedOn, reason }, transaction)
+  return { state: after.state, quarantined: true }
 }
 
 async function insertEvent(vessel: Vessel, e: { kind: VesselEventKind, happenedOn: string, reason: string, newLayupOn: string | null, by: string }, transaction: Transaction) {

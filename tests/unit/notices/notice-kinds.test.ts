@@ -39,6 +39,11 @@ function varsFor(baseUrl: string): NoticeVars {
     toDate: '2026-05-16',
     eventDate: '2026-05-09',
     reasonText: 'Gale forecast',
+    kindLabel: 'Burst',
+    happenedOn: '2026-05-09',
+    reporterName: 'Wren Gullyhaven',
+    incidentId: '2d3e4f5a-6b7c-4d8e-9f0a-1b2c3d4e5f6a',
+    outcome: 'Pin replaced on pad 2',
   }
 }
 

@@ -1,0 +1,40 @@
+import type { IncidentKind, IncidentStatus } from '../utils/incident-words'
+
+/** A person named on an incident report. */
+export interface IncidentPersonDto {
+  membershipId: string
+  name: string
+}
+
+/** One row of the incident list. */
+export interface IncidentListItemDto {
+  id: string
+  kind: IncidentKind
+  status: IncidentStatus
+  happenedAt: string
+  place: string
+  vessel: { id: string, tag: string } | null
+  reporter: IncidentPersonDto
+  peopleCount: number
+}
+
+/** An incident as its reader may see it. */
+export interface IncidentDto extends IncidentListItemDto {
+  event: { id: string, heldOn: string, site: string } | null
+  vesselState: string | null
+  people: IncidentPersonDto[]
+  whatHappened: string
+  /** Whether an injury's personal details were given (everyone who sees the report sees this). */
+  injuryDetailsGiven: boolean
+  /** The personal details of an injury: only for the safety officer (incidents.review), else null. */
+  injuryDetails: string | null
+  reviewNotes: string
+  findings: string
+  actions: string
+  closedAt: string | null
+  closedBy: IncidentPersonDto | null
+  photos: { id: string, url: string, thumbnailUrl: string, caption: string | null }[]
+  /** What the reader may do: review, close, suspend tiers (the safety officer, while open). */
+  canReview: boolean
+  createdAt: string
+}
