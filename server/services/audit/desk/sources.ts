@@ -59,7 +59,7 @@ export async function proofRows(ctx: DeskContext, until: string): Promise<DeskSo
     const lapsed = s.effectiveState !== 'in_service'
     if (!lapsed && (!s.validThroughOn || s.validThroughOn > until)) return []
     return [{
-      id: v.id, link_kind: 'vessel', link_id: v.tag, link_label: v.tag, search: `${v.tag} ${v.name} ${v.owner}`,
+      id: v.id, link_kind: 'vessel' as const, link_id: v.tag, link_label: v.tag, search: `${v.tag} ${v.name} ${v.owner}`,
       state: lapsed ? 'lapsed' : 'lapsing', due_on: lapsed ? null : s.validThroughOn,
       vessel: v.tag, name: v.name, owner: v.owner, validThrough: s.validThroughOn, fillsSinceProof: s.fillsSinceProof, fillsRemaining: s.fillsRemaining,
     }]

@@ -29,9 +29,10 @@ function checkedQuery(table: DeskTable, query: DeskQuery) {
 /** A source row as the reader sees it: its link, and its cells (standings in words). */
 function toRow(table: DeskTable, r: DeskSourceRow, columns: DeskColumn[]): DeskRowDto {
   const info = DESK_TABLE_INFO[table]
-  const to = r.link_kind === 'member' ? `/members/${r.link_id}`
-    : r.link_kind === 'vessel' ? `/vessels/${encodeURIComponent(r.link_id)}`
-      : r.link_kind === 'event' ? `/events/${r.link_id}` : '/fill-stations'
+  const LINKS: Record<DeskSourceRow['link_kind'], string> = {
+    member: `/members/${r.link_id}`, vessel: `/vessels/${encodeURIComponent(r.link_id)}`, event: `/events/${r.link_id}`, station: '/fill-stations',
+  }
+  const to = LINKS[r.link_kind]
   const cells = Object.fromEntries(columns.map(c => [c.key,
     c.key === 'state' || c.key === 'kind' ? (r.state === null ? null : info.states[r.state] ?? r.state) : r[c.key] ?? null]))
   return { id: r.id, link: { to, label: r.link_label }, cells }
