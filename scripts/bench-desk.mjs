@@ -28,7 +28,11 @@ const FLOOR = '/api/_auth/session'
 const TABLES = ['tiers-expiring', 'training-expiring', 'fit-tests-expiring', 'tiers-lapsed', 'refused-next',
   'proofs', 'vessels-held', 'gauges', 'event-fills', 'incidents']
 
-/** What the desk lists, on top of the fill world: a twentieth of the tiers due within 90 days, ... */
+/**
+ * What the desk lists, on top of the fill world: a twentieth of the tiers and a tenth of the training
+ * records due within 90 days, a fiftieth of the tiers suspended, about one vessel in a hundred held
+ * (quarantined or failed), and up to 100 open incidents on the quarantined ones.
+ */
 async function seedDeskWorld(client) {
   const q = (text, values) => client.query(text, values)
   const [{ club_id: clubId, safety_id: safetyId }] = (await q(`SELECT m.club_id, m.id AS safety_id FROM memberships m
@@ -39,15 +43,16 @@ async function seedDeskWorld(client) {
     WHERE club_id = $1 AND membership_id <> $2 AND hashtext(id::text) % 50 = 1`, [clubId, safetyId])
   await q(`UPDATE training_records SET expires_on = CURRENT_DATE + (hashtext(id::text) & 127) % 90
     WHERE club_id = $1 AND hashtext(id::text) % 10 = 0`, [clubId])
-  await q(`UPDATE vessels SET state = CASE WHEN hashtext(id::text) % 2 = 0 THEN 'quarantined' ELSE 'failed' END
-    WHERE club_id = $1 AND number > 100000 AND hashtext(id::text) % 100 = 3`, [clubId])
+  await q(`UPDATE vessels SET state = CASE WHEN hashtext(id::text) % 100 = 3 THEN 'quarantined' ELSE 'failed' END
+    WHERE club_id = $1 AND number > 100000 AND hashtext(id::text) % 100 IN (3, 4)`, [clubId])
   await q(`INSERT INTO incidents (club_id, reported_by_membership_id, kind, happened_at, place, vessel_id, what_happened)
     SELECT $1, owner_membership_id, 'near_miss', now() - interval '1 day', 'Bench field', id, 'Bench incident'
       FROM vessels WHERE club_id = $1 AND state = 'quarantined' LIMIT 100`, [clubId])
   await q('ANALYZE')
   const counts = (await q(`SELECT (SELECT count(*) FROM member_tiers WHERE club_id = $1 AND expires_on < CURRENT_DATE + 90)::int AS due,
-    (SELECT count(*) FROM incidents WHERE club_id = $1)::int AS incidents`, [clubId])).rows[0]
-  console.log(`• ${counts.due} tiers due within 90 days, ${counts.incidents} open incidents`)
+    (SELECT count(*) FROM incidents WHERE club_id = $1)::int AS incidents,
+    (SELECT count(*) FROM vessels WHERE club_id = $1 AND state IN ('quarantined', 'failed'))::int AS held`, [clubId])).rows[0]
+  console.log(`• ${counts.due} tiers due within 90 days, ${counts.held} vessels held, ${counts.incidents} open incidents`)
 }
 
 async function signInDemoSafety(baseUrl) {
