@@ -17,6 +17,7 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/incidents', label: 'Incidents', testId: 'nav-incidents' },
   { to: '/members', label: 'Members', can: 'members.read', testId: 'nav-members' },
   { to: '/audit', label: 'Audit trail', can: 'audit.read', testId: 'nav-audit' },
+  { to: '/audit/desk', label: 'Audit desk', can: 'audit.read', testId: 'nav-audit-desk' },
   { to: '/outbox', label: 'Outbox', can: 'notices.manage', testId: 'nav-outbox' },
   { to: '/dues/payments', label: 'Dues and payments', can: 'dues.manage', testId: 'nav-dues' },
   { to: '/vessel-policy', label: 'Vessel policy', can: 'policy.edit', testId: 'nav-vessel-policy' },

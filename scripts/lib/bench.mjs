@@ -70,9 +70,9 @@ export async function signInDemoAdmin(baseUrl) {
  * A scratch cluster in `.local/<name>/pg` on `pgPort` with a fresh database: migrated, the demo club
  * seeded, `members` invented members added. With `appPort` it also starts the production server
  * (NODE_ENV=production) on it, connected as `role` ('app', the application role the server uses in
- * production, or 'owner'). Returns { client (owner connection), ownerUrl, databaseUrl, baseUrl, stop }.
+ * production, or 'owner'), with `env` added to its environment. Returns { client (owner connection), ownerUrl, databaseUrl, baseUrl, stop }.
  */
-export async function startBenchStack({ name, pgPort, appPort, smtpPort, members, role = 'app' }) {
+export async function startBenchStack({ name, pgPort, appPort, smtpPort, members, role = 'app', env = {} }) {
   const database = 'hoopwise_bench'
   const cluster = startPostgres({ dir: ensureDir(join(LOCAL, name, 'pg')), port: pgPort, database: 'postgres', fast: true })
   let client
@@ -105,6 +105,7 @@ export async function startBenchStack({ name, pgPort, appPort, smtpPort, members
           NUXT_PUBLIC_URL: baseUrl,
           NUXT_SMTP_HOST: '127.0.0.1',
           NUXT_SMTP_PORT: String(smtpPort),
+          ...env,
         },
       })
     }

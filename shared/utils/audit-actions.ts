@@ -155,6 +155,9 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   incident: 'An incident',
 }
 
+/** The subject types the audit trail's filter offers (those with words above). */
+export const AUDIT_SUBJECT_TYPES = Object.keys(AUDIT_SUBJECT_LABELS) as [string, ...string[]]
+
 /** The words for what an event is about, or the subject type itself when it has none. */
 export function auditSubjectLabel(subjectType: string): string {
   return AUDIT_SUBJECT_LABELS[subjectType] ?? subjectType

@@ -63,6 +63,10 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
   'GET /api/audit': only(200, 'safety', 'admin'),
+  'GET /api/audit/desk': only(200, 'safety', 'admin'),
+  'GET /api/audit/desk/charts': only(200, 'safety', 'admin'),
+  'GET /api/audit/desk/[table]': only(200, 'safety', 'admin'), // admins without injury details
+  'GET /api/audit/desk/[table]/export': only(200, 'safety', 'admin'),
   'GET /api/me/sessions': signedIn(200),
   'DELETE /api/me/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session of mine
   'POST /api/me/sessions/sign-out-others': signedIn(400), // not confirmed: nothing is signed out
@@ -187,6 +191,7 @@ const PARAM_VALUES: Record<string, () => string> = {
   tag: () => 'ZZZZZ-9999',
   token: () => 'A'.repeat(43),
   rank: () => '2',
+  table: () => 'tiers-expiring',
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]

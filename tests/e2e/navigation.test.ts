@@ -7,7 +7,7 @@ import { makeMember } from '../support/factories'
 
 await setupBrowser()
 
-const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-vessel-policy', 'nav-fill-stations']
+const ALL_ITEMS = ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-audit-desk', 'nav-outbox', 'nav-dues', 'nav-vessel-policy', 'nav-fill-stations']
 
 async function visibleNavItems(page: Page): Promise<string[]> {
   const found: string[] = []
@@ -19,8 +19,8 @@ describe('navigation per role', () => {
   it.each<[DemoRole, string[]]>([
     ['member', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents']],
     ['instructor', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-fill-stations']],
-    ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-vessel-policy', 'nav-fill-stations']],
-    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-outbox', 'nav-dues', 'nav-fill-stations']],
+    ['safety', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-audit-desk', 'nav-vessel-policy', 'nav-fill-stations']],
+    ['admin', ['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-audit-desk', 'nav-outbox', 'nav-dues', 'nav-fill-stations']],
   ])('the demo %s account signs in through the form and sees exactly its navigation', async (role, expected) => {
     const page = await createPage('/login')
     try {
@@ -101,7 +101,7 @@ describe('on a phone (360 × 740)', () => {
       await toggle.click()
       expect(await toggle.getAttribute('aria-expanded')).toBe('true')
       await page.getByTestId('nav-standing').waitFor()
-      expect(await visibleNavItems(page)).toEqual(['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-vessel-policy', 'nav-fill-stations'])
+      expect(await visibleNavItems(page)).toEqual(['nav-dashboard', 'nav-standing', 'nav-waiver', 'nav-vessels', 'nav-calculator', 'nav-coupons', 'nav-training', 'nav-workshop', 'nav-tiers', 'nav-events', 'nav-incidents', 'nav-members', 'nav-audit', 'nav-audit-desk', 'nav-vessel-policy', 'nav-fill-stations'])
       await page.getByTestId('nav-standing').click()
       await page.waitForURL(url => url.pathname === '/standing')
       expect(await page.getByTestId('main-nav').isVisible()).toBe(false)

@@ -18,8 +18,8 @@ interface AuditRow {
 }
 
 /**
- * One page of club `clubId`'s audit trail, newest first (id breaks ties), optionally only one action
- * and/or one subject. A COUNT and a page query on the (club_id, created_at) index. The actor is
+ * One page of club `clubId`'s audit trail, newest first (id breaks ties), optionally only one action,
+ * one kind of subject and/or one subject. A COUNT and a page query on the (club_id, created_at) index. The actor is
  * named by their CURRENT name (so a borrowed name never hides who acted).
  */
 export async function listAuditEvents(clubId: string, query: AuditQuery): Promise<Paged<AuditEventDto>> {
@@ -28,6 +28,10 @@ export async function listAuditEvents(clubId: string, query: AuditQuery): Promis
   if (query.action) {
     where.push('a.action = $action')
     bind.action = query.action
+  }
+  if (query.subjectType) {
+    where.push('a.subject_type = $subjectType')
+    bind.subjectType = query.subjectType
   }
   if (query.subjectId) {
     where.push('a.subject_id = $subjectId')

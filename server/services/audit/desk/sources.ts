@@ -1,0 +1,148 @@
+import { QueryTypes } from 'sequelize'
+import { GAUGE_STATES, gaugeCurrentThrough, gaugeState } from '#shared/utils/event-rules'
+import type { DeskTable } from '#shared/utils/audit-desk'
+import { deriveProofStanding, loadProofFacts, clubVesselRules } from '../../vessels'
+import type { VesselConstruction } from '#shared/utils/vessel-arithmetic'
+import type { DeskContext } from './context'
+
+/**
+ * Where each desk table's rows come from. A SQL source is one SELECT whose columns are the table's
+ * column keys (quoted) plus `id`, `link_kind`, `link_id`, `link_label`, `search`, `state` and `due_on`
+ * (the day a windowed row falls due); the desk wraps it to filter, sort, page and count in the same
+ * query. A computed source is a function (the proof standing and the gauge rule live in TypeScript,
+ * so they are applied there, never copied into SQL).
+ */
+export type DeskSource
+  = | { kind: 'sql', sql: (ctx: DeskContext) => string }
+    | { kind: 'computed', rows: (ctx: DeskContext) => Promise<DeskSourceRow[]> }
+
+/** One row as a source gives it. */
+export interface DeskSourceRow {
+  id: string
+  link_kind: 'member' | 'vessel' | 'event' | 'station'
+  link_id: string
+  link_label: string
+  search: string
+  state: string | null
+  due_on: string | null
+  [column: string]: string | number | null
+}
+
+const TIER_NAME = `'T' || t.rank || ' ' || l.name`
+
+/** The latest passed record of each member and course (fit tests only, or all but them). */
+const latestTraining = (fitTests: boolean) => `
+  SELECT r.id, 'member' AS link_kind, r.membership_id::text AS link_id, u.name AS link_label,
+         u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
+         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on
+    FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
+           WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
+    JOIN courses c ON c.id = r.course_id
+    JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
+   WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'
+     AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)`
+
+/** Club vessels in service whose proof has lapsed or runs out by `until`, by the vessel standing service. */
+export async function proofRows(ctx: DeskContext, until: string): Promise<DeskSourceRow[]> {
+  const rules = await clubVesselRules(ctx.clubId)
+  if (!rules) return []
+  const vessels = await useDb().query<{ id: string, tag: string, name: string, construction: VesselConstruction, owner: string }>(
+    `SELECT v.id, v.tag, v.name, v.construction, u.name AS owner
+       FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
+      WHERE v.club_id = :clubId AND v.state = 'in_service'`,
+    { replacements: { clubId: ctx.clubId }, type: QueryTypes.SELECT })
+  const facts = await loadProofFacts(vessels.map(v => v.id))
+  return vessels.flatMap((v) => {
+    const f = facts.get(v.id)
+    if (!f) return []
+    const s = deriveProofStanding({ state: 'in_service', construction: v.construction, lastLayupOn: null, proofRequestedAt: null, ...f }, rules.policy, ctx.today)
+    const lapsed = s.effectiveState !== 'in_service'
+    if (!lapsed && (!s.validThroughOn || s.validThroughOn > until)) return []
+    return [{
+      id: v.id, link_kind: 'vessel' as const, link_id: v.tag, link_label: v.tag, search: `${v.tag} ${v.name} ${v.owner}`,
+      state: lapsed ? 'lapsed' : 'lapsing', due_on: lapsed ? null : s.validThroughOn,
+      vessel: v.tag, name: v.name, owner: v.owner, validThrough: s.validThroughOn, fillsSinceProof: s.fillsSinceProof, fillsRemaining: s.fillsRemaining,
+    }]
+  })
+}
+
+export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
+  'tiers-expiring': { kind: 'sql', sql: () => `
+    SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
+           u.name AS "member", ${TIER_NAME} AS "tier", t.expires_on::text AS "expiresOn", (t.expires_on - CAST(:today AS date)) AS "daysLeft",
+           u.name AS search, NULL::text AS state, t.expires_on::text AS due_on
+      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
+     WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+       AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
+  'training-expiring': { kind: 'sql', sql: () => latestTraining(false) },
+  'fit-tests-expiring': { kind: 'sql', sql: () => latestTraining(true) },
+  'tiers-lapsed': { kind: 'sql', sql: () => `
+    SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
+           u.name AS "member", ${TIER_NAME} AS "tier",
+           CASE WHEN t.suspended_at IS NOT NULL THEN to_char(t.suspended_at AT TIME ZONE :tz, 'YYYY-MM-DD') ELSE (t.expires_on + 1)::text END AS "since",
+           t.suspension_reason AS "reason",
+           u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
+      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
+     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+       AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
+  // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
+  // are not now, when no tier as high is current: the fill gate will refuse them at that tier.
+  'refused-next': { kind: 'sql', sql: () => `
+    SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
+           u.name AS "member", ${TIER_NAME} AS "tier",
+           CASE WHEN t.suspended_at IS NOT NULL THEN to_char(t.suspended_at AT TIME ZONE :tz, 'YYYY-MM-DD') ELSE (t.expires_on + 1)::text END AS "since",
+           lf.held_on::text AS "lastFillOn",
+           u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
+      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
+      CROSS JOIN LATERAL (SELECT f.created_at, f.held_on FROM fills f WHERE f.membership_id = t.membership_id AND f.allowed
+                           ORDER BY f.created_at DESC LIMIT 1) lf
+     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+       AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
+       AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
+       AND NOT EXISTS (SELECT 1 FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.rank >= t.rank AND c.id <> t.id
+                        AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date))` },
+  'proofs': { kind: 'computed', rows: ctx => proofRows(ctx, ctx.replacements.d90 as string) },
+  'vessels-held': { kind: 'sql', sql: () => `
+    SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
+           v.tag AS "vessel", v.name AS "name", u.name AS "owner", to_char(v.updated_at AT TIME ZONE :tz, 'YYYY-MM-DD') AS "since",
+           v.tag || ' ' || v.name || ' ' || u.name AS search, v.state AS state, NULL::text AS due_on
+      FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
+     WHERE v.club_id = :clubId AND v.state IN ('quarantined', 'failed')` },
+  'gauges': { kind: 'computed', rows: async (ctx) => {
+    const stations = await useDb().query<{ id: string, name: string, gauge_name: string, calibrated_on: string, interval_months: number }>(
+      `SELECT id, name, gauge_name, gauge_calibrated_on::text AS calibrated_on, gauge_interval_months AS interval_months
+         FROM fill_stations WHERE club_id = :clubId AND retired_at IS NULL`,
+      { replacements: { clubId: ctx.clubId }, type: QueryTypes.SELECT })
+    return stations.flatMap((s) => {
+      const through = gaugeCurrentThrough(s.calibrated_on, s.interval_months)
+      const state = gaugeState(through, ctx.today)
+      if (state === GAUGE_STATES[0]) return []
+      return [{
+        id: s.id, link_kind: 'station' as const, link_id: s.id, link_label: s.name, search: `${s.name} ${s.gauge_name}`, state, due_on: null,
+        station: s.name, gauge: s.gauge_name, calibratedOn: s.calibrated_on, currentThrough: through,
+      }]
+    })
+  } },
+  'event-fills': { kind: 'sql', sql: () => `
+    SELECT e.id, 'event' AS link_kind, e.id::text AS link_id, e.site AS link_label,
+           e.held_on::text AS "heldOn", e.site AS "site", count(*) FILTER (WHERE f.allowed)::int AS "fills",
+           count(*) FILTER (WHERE NOT f.allowed)::int AS "refused",
+           count(*) FILTER (WHERE f.allowed AND f.supervisor_membership_id IS NOT NULL)::int AS "supervised",
+           e.site AS search, NULL::text AS state, NULL::text AS due_on
+      FROM launch_events e JOIN fills f ON f.event_id = e.id
+     WHERE e.club_id = :clubId
+     GROUP BY e.id` },
+  'incidents': { kind: 'sql', sql: ctx => `
+    SELECT i.id, CASE WHEN v.tag IS NOT NULL THEN 'vessel' WHEN i.event_id IS NOT NULL THEN 'event' ELSE 'member' END AS link_kind,
+           coalesce(v.tag, i.event_id::text, i.reported_by_membership_id::text) AS link_id, coalesce(v.tag, e.site, ru.name) AS link_label,
+           to_char(i.happened_at AT TIME ZONE :tz, 'YYYY-MM-DD HH24:MI') AS "happenedAt", i.place AS "place", v.tag AS "vessel",
+           ru.name AS "reporter", (SELECT count(*)::int FROM incident_people p WHERE p.incident_id = i.id) AS "people",
+           ${ctx.officer ? 'i.injury_details' : 'NULL::text'} AS "injuryDetails",
+           i.place || ' ' || coalesce(v.tag, '') AS search, i.kind AS state, NULL::text AS due_on
+      FROM incidents i JOIN memberships rm ON rm.id = i.reported_by_membership_id JOIN users ru ON ru.id = rm.user_id
+      LEFT JOIN vessels v ON v.id = i.vessel_id LEFT JOIN launch_events e ON e.id = i.event_id
+     WHERE i.club_id = :clubId AND i.status = 'open'` },
+}
