@@ -2,3 +2,4 @@
 export * from './record'
 export * from './trail'
 export * from './dashboard-cards'
+export * from './evidence-pack'
