@@ -66,15 +66,15 @@ describe('the evidence pack PDF', () => {
   it('continues a long table over pages, repeating its title and headings on each, and numbers every page', async () => {
     const pdf = await renderEvidencePack(packOf(150))
     const parser = new PDFParse({ data: new Uint8Array(pdf) })
-    const { pages } = await parser.getText({ cellSeparator: ' | ' })
+    const { pages } = await parser.getText()
     await parser.destroy()
-    const headings = 'Member | Membership | Valid tier | Current courses'
+    const headings = 'Member Membership Valid tier Current courses'
     const continued = pages.filter(p => p.text.includes('Members (continued)'))
     expect(continued.length).toBeGreaterThanOrEqual(2)
     for (const page of continued) expect(page.text).toContain(headings)
     // Every member row once, in order, and the headings once per page of the table.
     const text = pages.map(p => p.text).join('\n')
-    expect(text.match(/Member \d{4} \|/g)).toEqual(Array.from({ length: 150 }, (_, i) => `Member ${String(i).padStart(4, '0')} |`))
+    expect(text.match(/Member \d{4} Active/g)).toEqual(Array.from({ length: 150 }, (_, i) => `Member ${String(i).padStart(4, '0')} Active`))
     expect(text.split(headings).length - 1).toBe(continued.length + 1)
     pages.forEach((p, i) => expect(p.text).toContain(`page ${i + 1} of ${pages.length}`))
     expect(text).toContain('No launch event in the period.')
