@@ -151,8 +151,8 @@ export function renderEvidencePack(d: EvidencePackData): Promise<Buffer> {
     drawTable(doc, {
       title: 'Incidents',
       columns: [
-        { header: 'Date', width: 1.1 }, { header: 'Kind', width: 1.3 }, { header: 'Place', width: 1.6 }, { header: 'Vessel', width: 1 },
-        { header: 'Event', width: 1.1 }, { header: 'Outcome', width: 4 },
+        { header: 'Date', width: 1.1 }, { header: 'Kind', width: 1.9 }, { header: 'Place', width: 1.5 }, { header: 'Vessel', width: 1 },
+        { header: 'Event', width: 1.1 }, { header: 'Outcome', width: 3.5 },
       ],
       rows: d.incidents.map(i => [i.happenedOn, INCIDENT_KIND_LABELS[i.kind] ?? i.kind, clip(i.place, 200), i.vesselTag ?? '', i.eventOn ?? '', incidentOutcome(i)]),
       empty: 'No incident was reported in the period.',
