@@ -28,7 +28,7 @@ async function seedPackWorld(client) {
   await q(`CREATE TEMP TABLE bench_members AS SELECT m.id, u.name, row_number() OVER (ORDER BY m.id)::int AS n
     FROM memberships m JOIN users u ON u.id = m.user_id WHERE u.email LIKE '%@bench.hoopwise.example'`)
   await q(`INSERT INTO member_tiers (club_id, membership_id, rank, first_granted_on, signed_on, expires_on, suspended_at, suspension_reason, suspended_by_membership_id)
-    SELECT $1, id, n % 4, CURRENT_DATE - 200, CURRENT_DATE - (n % 300), CURRENT_DATE - (n % 300) + 365,
+    SELECT $1, id, n % 4, CURRENT_DATE - 400, CURRENT_DATE - (n % 300), CURRENT_DATE - (n % 300) + 365,
       CASE WHEN n % 40 = 0 THEN now() END, CASE WHEN n % 40 = 0 THEN 'Bench suspension' END, CASE WHEN n % 40 = 0 THEN $2::uuid END
     FROM bench_members WHERE id <> $2 ON CONFLICT DO NOTHING`, [clubId, officerId])
   await q(`INSERT INTO training_records (club_id, membership_id, course_id, trainee_name, subject, trained_from, trained_to,
