@@ -67,6 +67,7 @@ const MATRIX: Record<string, Row> = {
   'GET /api/audit/desk/charts': only(200, 'safety', 'admin'),
   'GET /api/audit/desk/[table]': only(200, 'safety', 'admin'), // admins without injury details
   'GET /api/audit/desk/[table]/export': only(200, 'safety', 'admin'),
+  'GET /api/audit/evidence-pack': only(200, 'safety', 'admin'), // a PDF of the last 12 months
   'GET /api/me/sessions': signedIn(200),
   'DELETE /api/me/sessions/[id]': signedIn(404), // [id] is a membership id here: no such session of mine
   'POST /api/me/sessions/sign-out-others': signedIn(400), // not confirmed: nothing is signed out
