@@ -13,6 +13,7 @@ ensureDependencies()
 const { startPostgres } = await import('./lib/postgres.mjs')
 const { startMailCatcher, startPaymentFake, startProcess, waitForHttp } = await import('./lib/processes.mjs')
 const { setUpDatabase } = await import('./lib/setup.mjs')
+const { backupSettings, scheduleNightlyBackups } = await import('./lib/backup.mjs')
 
 const fileEnv = loadDotEnv()
 // The set-up reads both: a line in .env counts as if it were in the environment.
@@ -42,6 +43,8 @@ process.on('SIGINT', () => stopAll(0))
 process.on('SIGTERM', () => stopAll(0))
 
 try {
+  // The nightly backup (HOOPWISE_BACKUP_AT; off unless set): its settings are checked before anything starts.
+  const backups = backupSettings(setupEnv)
   ensureDir(join(ROOT, '.local'))
   let cluster
   if (!setupEnv.NUXT_DATABASE_URL) {
@@ -63,7 +66,7 @@ try {
     mailNote += `; test payment page: http://127.0.0.1:${DEV.paymentFakePort}`
   }
 
-  const { databaseUrl, seeded } = await setUpDatabase({ env: setupEnv, cluster, publicUrl })
+  const { databaseUrl, ownerUrl, seeded } = await setUpDatabase({ env: setupEnv, cluster, publicUrl })
 
   const env = {
     ...fileEnv,
@@ -96,6 +99,7 @@ try {
   stoppers.push(() => server.stop())
   server.once('exit', code => stopAll(code ?? 0))
   await waitForHttp(`http://127.0.0.1:${DEV.appPort}/api/health`, 180_000)
+  if (backups.at) stoppers.push(scheduleNightlyBackups({ at: backups.at, env: { ...setupEnv, NUXT_DATABASE_URL: databaseUrl, NUXT_DATABASE_OWNER_URL: ownerUrl } }))
 
   const demo = seeded
     ? `
