@@ -155,6 +155,7 @@ function restoreSteps({ folder, replace, ownerUrl, appUrl, uploadsDir, pgBin }) 
       name: 'restore the uploads',
       run: () => extractUploads(folder, uploadsDir),
     },
+    // Last, once the rows and the files are back: the erasure list, so a backup brings no erased member back.
   ]
 }
 
