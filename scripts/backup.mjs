@@ -39,8 +39,10 @@ async function main() {
     console.log('  The session secret (.env) is not in it: keep a copy of .env somewhere else.')
   }
   catch (error) {
-    if (/ECONNREFUSED|ConnectionRefused/.test(`${error.name} ${error.message}`) && !env.NUXT_DATABASE_URL) {
-      throw new BackupError('The private PostgreSQL is not running: start `npm start` first, or set NUXT_DATABASE_URL.')
+    if (/ECONNREFUSED|ConnectionRefused/.test(`${error.name} ${error.message}`)) {
+      throw new BackupError(env.NUXT_DATABASE_URL
+        ? `PostgreSQL does not answer at ${new URL(ownerUrl).host}: is it running?`
+        : 'The private PostgreSQL is not running: start `npm start` first, or set NUXT_DATABASE_URL.')
     }
     throw error
   }

@@ -133,10 +133,17 @@ export async function tableRowCounts(client) {
   return counts
 }
 
-/** Runs a PostgreSQL client tool; rejects with its own error lines when it fails. */
-function runTool(path, args) {
+/**
+ * Runs a PostgreSQL client tool on the database at `url`; rejects with its own error lines when it
+ * fails. The password goes in PGPASSWORD, never on the command line where `ps` would show it.
+ */
+function runTool(path, args, url) {
+  const target = new URL(url)
+  const password = decodeURIComponent(target.password)
+  target.password = ''
   return new Promise((resolveRun, reject) => {
-    const child = spawn(path, args, { stdio: ['ignore', 'ignore', 'pipe'], env: { ...process.env, LC_ALL: 'C.UTF-8' } })
+    const env = { ...process.env, LC_ALL: 'C.UTF-8', ...(password ? { PGPASSWORD: password } : {}) }
+    const child = spawn(path, [...args, `--dbname=${target}`], { stdio: ['ignore', 'ignore', 'pipe'], env })
     let stderr = ''
     child.stderr.on('data', (d) => {
       stderr = (stderr + d).slice(-4000)
@@ -187,13 +194,12 @@ export async function createBackup({ ownerUrl, appUrl, uploadsDir, backupsDir, k
   const name = backupFolderName(now)
   const folder = join(backupsDir, name)
   if (existsSync(folder)) throw new BackupError(`${folder} exists already: one backup a second at most`)
+  const client = new pg.Client({ connectionString: ownerUrl })
+  await client.connect()
   const partial = `${folder}.partial`
   rmSync(partial, { recursive: true, force: true })
   // Personal data: readable by whoever runs the commands only.
   mkdirSync(partial, { mode: 0o700 })
-
-  const client = new pg.Client({ connectionString: ownerUrl })
-  await client.connect()
   let manifest
   try {
     const serverMajor = await serverMajorOf(client)
@@ -203,7 +209,7 @@ export async function createBackup({ ownerUrl, appUrl, uploadsDir, backupsDir, k
     const { rows: [{ snapshot }] } = await client.query('SELECT pg_export_snapshot() AS snapshot')
     const tables = await tableRowCounts(client)
     log(`• dumping the database (PostgreSQL ${serverVersion}, ${Object.keys(tables).length} tables)…`)
-    await runTool(pgDump, ['--format=custom', '--compress=6', `--snapshot=${snapshot}`, `--file=${join(partial, BACKUP_FILES.database)}`, `--dbname=${ownerUrl}`])
+    await runTool(pgDump, ['--format=custom', '--compress=6', `--snapshot=${snapshot}`, `--file=${join(partial, BACKUP_FILES.database)}`], ownerUrl)
     await client.query('COMMIT')
     const uploads = folderSummary(uploadsDir)
     log(`• packing the uploads folder ${uploadsDir} (${uploads.files} files)…`)
@@ -280,7 +286,7 @@ export async function extractUploads(folder, uploadsDir) {
 export async function restoreDump(pgRestore, folder, ownerUrl) {
   // The target's own roles own everything and get their rights from grantAppRole afterwards, so a
   // backup restores under other role names too.
-  await runTool(pgRestore, ['--no-owner', '--no-acl', '--exit-on-error', '--single-transaction', `--dbname=${ownerUrl}`, join(folder, BACKUP_FILES.database)])
+  await runTool(pgRestore, ['--no-owner', '--no-acl', '--exit-on-error', '--single-transaction', join(folder, BACKUP_FILES.database)], ownerUrl)
 }
 
 /**
