@@ -19,8 +19,9 @@ import type { Paged } from '../../../shared/types/common'
 import type { PhotoDto } from '../../../shared/types/photos'
 import type { VesselListItemDto } from '../../../shared/types/vessels'
 
-const SOURCE_PORT = TEST.spareBase
-const RESTORED_PORT = TEST.spareBase + 1
+// Spare ports no other test file uses (they run side by side).
+const SOURCE_PORT = TEST.spareBase + 16
+const RESTORED_PORT = TEST.spareBase + 17
 const WORK = join(LOCAL, 'test', 'backup-restore')
 const BACKUPS = join(WORK, 'backups')
 const urls = (database: string) => ({
