@@ -24,8 +24,6 @@ const PG_PORT = TEST.pgPort + 10
 const SMTP_PORT = TEST.spareBase + 12
 const APP_PORT = TEST.spareBase + 13
 const TARGET = 0.25
-// The desk's answer cache (NUXT_AUDIT_DESK_CACHE_SECONDS): the server's default, or 0 to measure every answer computed afresh.
-const CACHE_SECONDS = process.env.BENCH_DESK_CACHE_SECONDS ?? '30'
 const FLOOR = '/api/_auth/session'
 const TABLES = ['tiers-expiring', 'training-expiring', 'fit-tests-expiring', 'tiers-lapsed', 'refused-next',
   'proofs', 'vessels-held', 'gauges', 'event-fills', 'incidents']
@@ -92,8 +90,7 @@ const load = () => loadavg().map(n => n.toFixed(2)).join(' ')
 let stack
 try {
   ensureBuild({ rebuild: !REUSE_BUILD })
-  stack = await startBenchStack({ name: 'bench-desk', pgPort: PG_PORT, appPort: APP_PORT, smtpPort: SMTP_PORT, members: MEMBERS,
-    env: { NUXT_AUDIT_DESK_CACHE_SECONDS: CACHE_SECONDS } })
+  stack = await startBenchStack({ name: 'bench-desk', pgPort: PG_PORT, appPort: APP_PORT, smtpPort: SMTP_PORT, members: MEMBERS })
   const { client, baseUrl } = stack
   const started = performance.now()
   await seedFillWorld(client, { vessels: VESSELS, fills: FILLS })
@@ -105,7 +102,7 @@ try {
     const probe = await fetch(new URL(path, baseUrl), { headers: { cookie } })
     if (probe.status !== 200) throw new Error(`GET ${path}: ${probe.status} ${(await probe.text()).slice(0, 400)}`)
   }
-  console.log(`\n${availableParallelism()} CPUs, load average ${load()} before the run; desk cache ${CACHE_SECONDS} s; ${CONNECTIONS} connections, ${SECONDS} s per route after ${WARM_UP_SECONDS} s warm-up\n`)
+  console.log(`\n${availableParallelism()} CPUs, load average ${load()} before the run; ${CONNECTIONS} connections, ${SECONDS} s per route after ${WARM_UP_SECONDS} s warm-up\n`)
   const results = []
   for (const path of paths) {
     if (WARM_UP_SECONDS > 0) await drive(baseUrl, cookie, WARM_UP_SECONDS, path)

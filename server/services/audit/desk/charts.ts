@@ -3,9 +3,8 @@ import type { Actor } from '../../../utils/auth'
 import type { DeskChartsDto, DeskEventTiersDto, DeskExpiryWeekDto } from '#shared/types/audit-desk'
 import { DESK_CHART_EVENTS, DESK_CHART_WEEKS, deskWeekOf } from '#shared/utils/audit-desk'
 import { addCalendarDays } from '#shared/utils/dates'
-import { deskContext, type DeskContext } from './context'
+import { deskContext } from './context'
 import { proofRows } from './sources'
-import { deskCached } from './cache'
 
 /**
  * The desk's charts: what falls due in each of the next 26 weeks (tiers in force, members' latest
@@ -14,10 +13,6 @@ import { deskCached } from './cache'
  */
 export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
   const ctx = await deskContext(actor)
-  return deskCached(`${ctx.clubId}:${ctx.today}:charts`, () => computeCharts(ctx))
-}
-
-async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
   const until = addCalendarDays(ctx.today, DESK_CHART_WEEKS * 7 - 1)
   const db = useDb()
   const replacements = { ...ctx.replacements, until, events: DESK_CHART_EVENTS }
