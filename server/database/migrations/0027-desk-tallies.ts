@@ -12,7 +12,8 @@ import type { MigrationFn } from '../migrator'
  *   vessel events. Recording a fill and a proof test both lock the vessel row first, so the two
  *   triggers never race for one vessel.
  *
- * And an index of the vessel events that end a proof, by club and day, for the same pick.
+ * And indexes for the desk's other reads: passed training records by expiry, suspended tiers, and the
+ * vessel events that end a proof (by club and day, for the same pick).
  */
 export const up: MigrationFn = async ({ context: sequelize }) => {
   await sequelize.query(`
@@ -77,6 +78,8 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
     END $$;
     CREATE TRIGGER fills_tally AFTER INSERT ON fills FOR EACH ROW EXECUTE FUNCTION fills_tally();
 
+    CREATE INDEX training_records_club_pass_expiry ON training_records (club_id, expires_on) WHERE result = 'pass';
+    CREATE INDEX member_tiers_club_suspended ON member_tiers (club_id) WHERE suspended_at IS NOT NULL;
     CREATE INDEX vessel_events_club_proof_ending ON vessel_events (club_id, happened_on)
       WHERE kind IN ('repair', 'modification', 'damage', 'crash', 'incident', 'heat_exposure');
   `)
@@ -85,6 +88,8 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
 export const down: MigrationFn = async ({ context: sequelize }) => {
   await sequelize.query(`
     DROP INDEX IF EXISTS vessel_events_club_proof_ending;
+    DROP INDEX IF EXISTS member_tiers_club_suspended;
+    DROP INDEX IF EXISTS training_records_club_pass_expiry;
     DROP TRIGGER IF EXISTS fills_tally ON fills;
     DROP FUNCTION IF EXISTS fills_tally();
     DROP TRIGGER IF EXISTS proof_tests_tally ON proof_tests;

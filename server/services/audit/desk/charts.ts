@@ -4,7 +4,7 @@ import type { DeskChartsDto, DeskEventTiersDto, DeskExpiryWeekDto } from '#share
 import { DESK_CHART_EVENTS, DESK_CHART_WEEKS, deskWeekOf } from '#shared/utils/audit-desk'
 import { addCalendarDays } from '#shared/utils/dates'
 import { deskContext } from './context'
-import { proofSql } from './sources'
+import { latestTrainingSql, proofSql } from './sources'
 
 /**
  * The desk's charts: what falls due in each of the next 26 weeks (tiers in force, members' latest
@@ -22,12 +22,7 @@ export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
         WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
           AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)
        UNION ALL
-       SELECT CASE WHEN c.code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, r.expires_on::text
-         FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-                WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
-         JOIN courses c ON c.id = r.course_id JOIN memberships m ON m.id = r.membership_id
-        WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL
-          AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)
+       SELECT CASE WHEN t.course_code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, t.due_on FROM (${latestTrainingSql(null, ':until')}) t
        UNION ALL
        SELECT 'proofs', p.due_on FROM (${proofSql(ctx, ':until')}) p WHERE p.state = 'lapsing'`,
       { replacements, type: QueryTypes.SELECT }),

@@ -30,17 +30,24 @@ export interface DeskSourceRow {
 
 const TIER_NAME = `'T' || t.rank || ' ' || l.name`
 
-/** The latest passed record of each member and course (fit tests only, or all but them). */
-const latestTraining = (fitTests: boolean) => `
+/**
+ * Members' latest passed record of a course (fit tests only, or all but them) expiring by `until`: the
+ * records due in the window (an index range), each kept when it is its member's latest pass of that
+ * course (one index probe: by training day, then by entry).
+ */
+export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
+  const course = fitTests === null ? '' : `AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'`
+  return `
   SELECT r.id, 'member' AS link_kind, r.membership_id::text AS link_id, u.name AS link_label,
          u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
-         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on
-    FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-           WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
-    JOIN courses c ON c.id = r.course_id
+         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on, c.code AS course_code
+    FROM training_records r JOIN courses c ON c.id = r.course_id
     JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
-   WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'
-     AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)`
+   WHERE r.club_id = :clubId AND r.result = 'pass' AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
+     AND r.id = (SELECT n.id FROM training_records n WHERE n.membership_id = r.membership_id AND n.course_id = r.course_id AND n.result = 'pass'
+                  ORDER BY n.trained_to DESC, n.created_at DESC LIMIT 1)
+     AND r.retraining_required_at IS NULL AND m.resigned_at IS NULL ${course}`
+}
 
 /**
  * Club vessels in service whose proof has lapsed or runs out by the parameter `until`, by the SQL
@@ -79,8 +86,8 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
      WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
-  'training-expiring': { kind: 'sql', sql: () => latestTraining(false) },
-  'fit-tests-expiring': { kind: 'sql', sql: () => latestTraining(true) },
+  'training-expiring': { kind: 'sql', sql: () => latestTrainingSql(false) },
+  'fit-tests-expiring': { kind: 'sql', sql: () => latestTrainingSql(true) },
   'tiers-lapsed': { kind: 'sql', sql: () => `
     SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
            u.name AS "member", ${TIER_NAME} AS "tier",
@@ -92,7 +99,8 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
      WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
   // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
-  // are not now, when no tier as high is current: the fill gate will refuse them at that tier.
+  // are not now, when no tier as high is current: the fill gate will refuse them at that tier. The
+  // highest current tier is a scalar subquery, so each candidate costs one probe of (membership, rank).
   'refused-next': { kind: 'sql', sql: () => `
     SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
            u.name AS "member", ${TIER_NAME} AS "tier",
@@ -106,8 +114,8 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
      WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
-       AND NOT EXISTS (SELECT 1 FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.rank >= t.rank AND c.id <> t.id
-                        AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date))` },
+       AND coalesce((SELECT max(c.rank) FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.id <> t.id
+                      AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date)), -1) < t.rank` },
   'proofs': { kind: 'sql', sql: ctx => proofSql(ctx, ':d90') },
   'vessels-held': { kind: 'sql', sql: () => `
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
