@@ -66,7 +66,10 @@ beforeAll(async () => {
   const g = generator(20261203)
   const testDays = [...EVENT_DAYS.map(d => clubDay(d)), monthEnd(1), monthEnd(2), monthEnd(3), monthEnd(13), clubDay(-g.int(450))]
   for (let i = 0; i < 48; i++) {
-    const state = g.pick(STATES)
+    // Every fourth vessel from the second is in service and gets a proof-ending event after its last
+    // pass; every fourth from the third gets its fills after it (so the fill limit is reached too).
+    const shape = i % 4
+    const state = shape === 1 || shape === 2 ? 'in_service' : g.pick(STATES)
     const construction = g.pick(VESSEL_CONSTRUCTIONS)
     const { vesselId } = await makeVessel({ ownerId: owner.memberId, state, construction })
     const c: Case = { vesselId, state, construction, passes: [], events: [], fills: [] }
@@ -78,14 +81,23 @@ beforeAll(async () => {
       await makeProofTest({ vesselId, witnessId: officer.memberId, testedOn, pressureBar, result: pass ? 'pass' : 'leak' })
       if (pass) c.passes.push({ testedOn, ratedFillBar: Math.floor((pressureBar / 1.5) * 100) / 100 })
     }
+    const lastOn = c.passes.reduce<string | null>((a, p) => (a === null || p.testedOn > a ? p.testedOn : a), null)
+    const later = events.filter(e => lastOn !== null && e.heldOn > lastOn)
+    if (shape === 1 && later.length) {
+      const e = { kind: g.pick(PROOF_INVALIDATING_EVENTS), on: g.pick(later).heldOn }
+      await sql(`INSERT INTO vessel_events (club_id, vessel_id, kind, happened_on, reason, by_membership_id) VALUES ($1, $2, $3, $4, 'Generated case', $5)`,
+        [clubId, vesselId, e.kind, e.on, officer.memberId])
+      c.events.push(e)
+    }
     for (let k = g.int(3); k > 0; k--) {
       const e = { kind: g.pick(EVENT_KINDS), on: g.int(4) === 0 && c.passes.length ? c.passes.at(-1)!.testedOn : clubDay(g.int(420) - 410) }
       await sql(`INSERT INTO vessel_events (club_id, vessel_id, kind, happened_on, reason, by_membership_id) VALUES ($1, $2, $3, $4, 'Generated case', $5)`,
         [clubId, vesselId, e.kind, e.on, officer.memberId])
       c.events.push(e)
     }
-    for (let k = g.int(7); k > 0; k--) {
-      const event = g.pick(events)
+    const onOrAfter = events.filter(e => lastOn !== null && e.heldOn >= lastOn)
+    for (let k = shape === 2 ? 5 : g.int(7); k > 0; k--) {
+      const event = shape === 2 && onOrAfter.length ? g.pick(onOrAfter) : g.pick(events)
       const allowed = g.int(6) > 0
       await makeFill({ eventId: event.eventId, stationId, memberId: owner.memberId, vesselId, reasons: allowed ? [] : [{ code: 'TIER_CAP_EXCEEDED', message: 'Generated refusal' }] })
       c.fills.push({ heldOn: event.heldOn, allowed })
