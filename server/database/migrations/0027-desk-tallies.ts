@@ -63,20 +63,22 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
     END $$;
     CREATE TRIGGER proof_tests_tally AFTER INSERT OR UPDATE OR DELETE ON proof_tests FOR EACH ROW EXECUTE FUNCTION proof_tests_tally();
 
+    -- Per statement, from the inserted rows: one upsert per event however many fills one INSERT adds.
     CREATE FUNCTION fills_tally() RETURNS trigger LANGUAGE plpgsql AS $$
     BEGIN
       INSERT INTO launch_event_fill_tallies AS t (event_id, club_id, fills, refused, supervised)
-        VALUES (NEW.event_id, NEW.club_id, CASE WHEN NEW.allowed THEN 1 ELSE 0 END, CASE WHEN NEW.allowed THEN 0 ELSE 1 END,
-                CASE WHEN NEW.allowed AND NEW.supervisor_membership_id IS NOT NULL THEN 1 ELSE 0 END)
+        SELECT event_id, club_id, count(*) FILTER (WHERE allowed), count(*) FILTER (WHERE NOT allowed),
+               count(*) FILTER (WHERE allowed AND supervisor_membership_id IS NOT NULL)
+          FROM new_fills GROUP BY event_id, club_id
         ON CONFLICT (event_id) DO UPDATE SET fills = t.fills + EXCLUDED.fills, refused = t.refused + EXCLUDED.refused,
                                              supervised = t.supervised + EXCLUDED.supervised;
-      IF NEW.allowed THEN
-        UPDATE vessel_proof_tallies SET fills_since_pass = fills_since_pass + 1
-         WHERE vessel_id = NEW.vessel_id AND last_pass_on <= NEW.held_on;
-      END IF;
+      UPDATE vessel_proof_tallies v SET fills_since_pass = v.fills_since_pass + n.n
+        FROM (SELECT f.vessel_id, count(*)::int AS n FROM new_fills f JOIN vessel_proof_tallies p ON p.vessel_id = f.vessel_id
+               WHERE f.allowed AND f.held_on >= p.last_pass_on GROUP BY f.vessel_id) n
+       WHERE v.vessel_id = n.vessel_id;
       RETURN NULL;
     END $$;
-    CREATE TRIGGER fills_tally AFTER INSERT ON fills FOR EACH ROW EXECUTE FUNCTION fills_tally();
+    CREATE TRIGGER fills_tally AFTER INSERT ON fills REFERENCING NEW TABLE AS new_fills FOR EACH STATEMENT EXECUTE FUNCTION fills_tally();
 
     CREATE INDEX training_records_club_pass_expiry ON training_records (club_id, expires_on) WHERE result = 'pass';
     CREATE INDEX member_tiers_club_suspended ON member_tiers (club_id) WHERE suspended_at IS NOT NULL;
