@@ -60,7 +60,6 @@ export default defineNuxtConfig({
     passwordHashConcurrency: 2,
     passwordHashMaxWaiting: 64,
     // Seconds the audit desk reuses an answer (it reads the whole club); 0 = always fresh.
-    auditDeskCacheSeconds: 30,
     // Where uploaded photos are kept (NUXT_UPLOADS_DIR), outside the web root; relative to the working directory.
     uploadsDir: '.local/uploads',
     // The card-payment service (dues): the secret key and the webhook endpoint's secret; host, port and

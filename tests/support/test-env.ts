@@ -40,7 +40,6 @@ export function serverEnv(overrides: Record<string, string> = {}): Record<string
     NUXT_PAYMENTS_API_PORT: String(TEST.paymentFakePort),
     NUXT_PAYMENTS_API_PROTOCOL: 'http',
     // The audit desk's tests read what they have just written.
-    NUXT_AUDIT_DESK_CACHE_SECONDS: '0',
     ...overrides,
   }
 }

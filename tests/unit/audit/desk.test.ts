@@ -2,7 +2,6 @@ import { describe, expect, it } from 'vitest'
 import { DESK_CHART_WEEKS, DESK_TABLES, DESK_TABLE_INFO, deskCsvCell, deskWeekOf, isDeskTable } from '../../../shared/utils/audit-desk'
 import { DeskQuerySchema } from '../../../shared/schemas/audit-desk'
 import { AuditQuerySchema } from '../../../shared/schemas/audit'
-import { createMemo } from '../../../server/services/audit/desk/cache'
 
 describe('deskWeekOf', () => {
   it('puts today and the next six days in week 0, and day 7 in week 1', () => {
@@ -65,30 +64,5 @@ describe('the audit trail\'s subject filter', () => {
     expect(AuditQuerySchema.parse({ subjectType: 'vessel' }).subjectType).toBe('vessel')
     expect(AuditQuerySchema.parse({ subjectType: '' }).subjectType).toBeUndefined()
     expect(AuditQuerySchema.safeParse({ subjectType: 'password' }).success).toBe(false)
-  })
-})
-
-describe('the desk memo', () => {
-  it('reuses an answer within its time, shares a pending one, and forgets a failure', async () => {
-    const memo = createMemo(2)
-    let runs = 0
-    const work = async () => ++runs
-    const [a, b] = await Promise.all([memo('k', 1000, work, 0), memo('k', 1000, work, 10)])
-    expect([a, b, runs]).toEqual([1, 1, 1])
-    expect(await memo('k', 1000, work, 1001)).toBe(2)
-    expect(await memo('k', 0, work, 1002)).toBe(3)
-    await expect(memo('bad', 1000, () => Promise.reject(new Error('no')), 0)).rejects.toThrow('no')
-    expect(await memo('bad', 1000, work, 1)).toBe(4)
-  })
-
-  it('keeps at most its number of entries, dropping the oldest', async () => {
-    const memo = createMemo(2)
-    let runs = 0
-    const work = async () => ++runs
-    await memo('a', 1000, work, 0)
-    await memo('b', 1000, work, 0)
-    await memo('c', 1000, work, 0)
-    expect(await memo('b', 1000, work, 1)).toBe(2)
-    expect(await memo('a', 1000, work, 1)).toBe(4)
   })
 })

@@ -3,9 +3,8 @@ import type { Actor } from '../../../utils/auth'
 import type { DeskChartsDto, DeskEventTiersDto, DeskExpiryWeekDto } from '#shared/types/audit-desk'
 import { DESK_CHART_EVENTS, DESK_CHART_WEEKS, deskWeekOf } from '#shared/utils/audit-desk'
 import { addCalendarDays } from '#shared/utils/dates'
-import { deskContext, type DeskContext } from './context'
-import { proofRows } from './sources'
-import { deskCached } from './cache'
+import { deskContext } from './context'
+import { latestTrainingSql, proofSql } from './sources'
 
 /**
  * The desk's charts: what falls due in each of the next 26 weeks (tiers in force, members' latest
@@ -14,30 +13,23 @@ import { deskCached } from './cache'
  */
 export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
   const ctx = await deskContext(actor)
-  return deskCached(`${ctx.clubId}:${ctx.today}:charts`, () => computeCharts(ctx))
-}
-
-async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
   const until = addCalendarDays(ctx.today, DESK_CHART_WEEKS * 7 - 1)
   const db = useDb()
   const replacements = { ...ctx.replacements, until, events: DESK_CHART_EVENTS }
-  const [dated, fillRows, proofs] = await Promise.all([
-    db.query<{ kind: 'tiers' | 'training' | 'fitTests', due: string }>(
+  const [dated, fillRows] = await Promise.all([
+    db.query<{ kind: 'tiers' | 'training' | 'fitTests' | 'proofs', due: string }>(
       `SELECT 'tiers' AS kind, t.expires_on::text AS due FROM member_tiers t JOIN memberships m ON m.id = t.membership_id
         WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
           AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)
        UNION ALL
-       SELECT CASE WHEN c.code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, r.expires_on::text
-         FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-                WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
-         JOIN courses c ON c.id = r.course_id JOIN memberships m ON m.id = r.membership_id
-        WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL
-          AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)`,
+       SELECT CASE WHEN t.course_code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, t.due_on FROM (${latestTrainingSql(null, ':until')}) t
+       UNION ALL
+       SELECT 'proofs', p.due_on FROM (${proofSql(ctx, ':until')}) p WHERE p.state = 'lapsing'`,
       { replacements, type: QueryTypes.SELECT }),
     // Fills grouped by member first, so each member's tier on the day is looked up once per event.
     db.query<{ event_id: string, held_on: string, site: string, rank: number | null, n: number }>(
       `WITH ev AS (SELECT e.id, e.held_on, e.site FROM launch_events e
-                    WHERE e.club_id = :clubId AND e.held_on <= CAST(:today AS date) AND EXISTS (SELECT 1 FROM fills f WHERE f.event_id = e.id)
+                    WHERE e.club_id = :clubId AND e.held_on <= CAST(:today AS date) AND EXISTS (SELECT 1 FROM launch_event_fill_tallies t WHERE t.event_id = e.id)
                     ORDER BY e.held_on DESC, e.id LIMIT :events),
             per AS (SELECT f.event_id, f.membership_id, count(*)::int AS n FROM fills f JOIN ev ON ev.id = f.event_id
                      WHERE f.allowed GROUP BY f.event_id, f.membership_id)
@@ -47,7 +39,6 @@ async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
                              AND t.first_granted_on <= ev.held_on AND t.expires_on >= ev.held_on AND t.revoked_at IS NULL) tr ON true
         GROUP BY ev.id, ev.held_on, ev.site, tr.rank`,
       { replacements, type: QueryTypes.SELECT }),
-    proofRows(ctx, until),
   ])
   const weeks: DeskExpiryWeekDto[] = Array.from({ length: DESK_CHART_WEEKS }, (_, i) => ({
     start: addCalendarDays(ctx.today, i * 7), tiers: 0, training: 0, fitTests: 0, proofs: 0,
@@ -55,10 +46,6 @@ async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
   for (const d of dated) {
     const w = deskWeekOf(d.due, ctx.today)
     if (w !== null) weeks[w]![d.kind]++
-  }
-  for (const p of proofs) {
-    const w = p.due_on ? deskWeekOf(p.due_on, ctx.today) : null
-    if (w !== null) weeks[w]!.proofs++
   }
   const events = new Map<string, DeskEventTiersDto>()
   for (const r of fillRows) {

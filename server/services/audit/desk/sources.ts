@@ -1,16 +1,16 @@
 import { QueryTypes } from 'sequelize'
 import { GAUGE_STATES, gaugeCurrentThrough, gaugeState } from '#shared/utils/event-rules'
 import type { DeskTable } from '#shared/utils/audit-desk'
-import { deriveProofStanding, loadProofFacts, clubVesselRules } from '../../vessels'
-import type { VesselConstruction } from '#shared/utils/vessel-arithmetic'
+import { proofStandingSql } from '../../vessels'
+import { PROOF_INVALIDATING_EVENTS } from '#shared/utils/vessel-arithmetic'
 import type { DeskContext } from './context'
 
 /**
  * Where each desk table's rows come from. A SQL source is one SELECT whose columns are the table's
  * column keys (quoted) plus `id`, `link_kind`, `link_id`, `link_label`, `search`, `state` and `due_on`
  * (the day a windowed row falls due); the desk wraps it to filter, sort, page and count in the same
- * query. A computed source is a function (the proof standing and the gauge rule live in TypeScript,
- * so they are applied there, never copied into SQL).
+ * query. A computed source is a function (the gauge rule lives in TypeScript and is applied there;
+ * the club's few stations make that cheap). The proof standing comes from its SQL mirror.
  */
 export type DeskSource
   = | { kind: 'sql', sql: (ctx: DeskContext) => string }
@@ -30,40 +30,51 @@ export interface DeskSourceRow {
 
 const TIER_NAME = `'T' || t.rank || ' ' || l.name`
 
-/** The latest passed record of each member and course (fit tests only, or all but them). */
-const latestTraining = (fitTests: boolean) => `
+/**
+ * Members' latest passed record of a course (fit tests only, or all but them) expiring by `until`: the
+ * records due in the window (an index range), each kept when it is its member's latest pass of that
+ * course (one index probe: by training day, then by entry).
+ */
+export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
+  const course = fitTests === null ? '' : `AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'`
+  return `
   SELECT r.id, 'member' AS link_kind, r.membership_id::text AS link_id, u.name AS link_label,
          u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
-         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on
-    FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-           WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
-    JOIN courses c ON c.id = r.course_id
+         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on, c.code AS course_code
+    FROM training_records r JOIN courses c ON c.id = r.course_id
     JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
-   WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'
-     AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)`
+   WHERE r.club_id = :clubId AND r.result = 'pass' AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
+     AND r.id = (SELECT n.id FROM training_records n WHERE n.membership_id = r.membership_id AND n.course_id = r.course_id AND n.result = 'pass'
+                  ORDER BY n.trained_to DESC, n.created_at DESC LIMIT 1)
+     AND r.retraining_required_at IS NULL AND m.resigned_at IS NULL ${course}`
+}
 
-/** Club vessels in service whose proof has lapsed or runs out by `until`, by the vessel standing service. */
-export async function proofRows(ctx: DeskContext, until: string): Promise<DeskSourceRow[]> {
-  const rules = await clubVesselRules(ctx.clubId)
-  if (!rules) return []
-  const vessels = await useDb().query<{ id: string, tag: string, name: string, construction: VesselConstruction, owner: string }>(
-    `SELECT v.id, v.tag, v.name, v.construction, u.name AS owner
-       FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
-      WHERE v.club_id = :clubId AND v.state = 'in_service'`,
-    { replacements: { clubId: ctx.clubId }, type: QueryTypes.SELECT })
-  const facts = await loadProofFacts(vessels.map(v => v.id))
-  return vessels.flatMap((v) => {
-    const f = facts.get(v.id)
-    if (!f) return []
-    const s = deriveProofStanding({ state: 'in_service', construction: v.construction, lastLayupOn: null, proofRequestedAt: null, ...f }, rules.policy, ctx.today)
-    const lapsed = s.effectiveState !== 'in_service'
-    if (!lapsed && (!s.validThroughOn || s.validThroughOn > until)) return []
-    return [{
-      id: v.id, link_kind: 'vessel' as const, link_id: v.tag, link_label: v.tag, search: `${v.tag} ${v.name} ${v.owner}`,
-      state: lapsed ? 'lapsed' : 'lapsing', due_on: lapsed ? null : s.validThroughOn,
-      vessel: v.tag, name: v.name, owner: v.owner, validThrough: s.validThroughOn, fillsSinceProof: s.fillsSinceProof, fillsRemaining: s.fillsRemaining,
-    }]
-  })
+/**
+ * Club vessels in service whose proof has lapsed or runs out by the parameter `until`, by the SQL
+ * mirror of the vessel standing rule. The vessel proof tallies first pick the few that may: a last
+ * pass old enough for the shortest interval to end by `until` (a month is at least 28 days), a fill
+ * count at the smallest limit, or a proof-ending event since the last pass; the mirror then decides
+ * each from the proof tests, fills and events themselves.
+ */
+export function proofSql(ctx: DeskContext, until: string): string {
+  const shortestMonths = Math.min(...Object.values(ctx.policy.intervalMonths))
+  const smallestLimit = Math.min(ctx.policy.fillLimit.bottle, ctx.policy.fillLimit.laminate)
+  const kinds = PROOF_INVALIDATING_EVENTS.map(k => `'${k}'`).join(', ')
+  return `
+    SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
+           v.tag AS "vessel", v.name AS "name", u.name AS "owner", ps.valid_through::text AS "validThrough",
+           ps.fills_since_proof AS "fillsSinceProof", ps.fills_remaining AS "fillsRemaining",
+           v.tag || ' ' || v.name || ' ' || u.name AS search, CASE WHEN ps.lapsed THEN 'lapsed' ELSE 'lapsing' END AS state,
+           CASE WHEN ps.lapsed THEN NULL ELSE ps.valid_through::text END AS due_on
+      FROM vessels v ${proofStandingSql(ctx.policy, { today: ':today' })}
+      JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
+     WHERE v.club_id = :clubId AND v.state = 'in_service' AND (ps.lapsed OR ps.valid_through <= CAST(${until} AS date))
+       AND v.id IN (
+         SELECT t.vessel_id FROM vessel_proof_tallies t
+          WHERE t.club_id = :clubId AND t.last_pass_on <= CAST(${until} AS date) - ${28 * shortestMonths}
+         UNION SELECT t.vessel_id FROM vessel_proof_tallies t WHERE t.club_id = :clubId AND t.fills_since_pass >= ${smallestLimit}
+         UNION SELECT e.vessel_id FROM vessel_events e JOIN vessel_proof_tallies t ON t.vessel_id = e.vessel_id
+          WHERE e.club_id = :clubId AND e.kind IN (${kinds}) AND e.happened_on <= CAST(:today AS date) AND e.happened_on > t.last_pass_on)`
 }
 
 export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
@@ -75,8 +86,8 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
      WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
-  'training-expiring': { kind: 'sql', sql: () => latestTraining(false) },
-  'fit-tests-expiring': { kind: 'sql', sql: () => latestTraining(true) },
+  'training-expiring': { kind: 'sql', sql: () => latestTrainingSql(false) },
+  'fit-tests-expiring': { kind: 'sql', sql: () => latestTrainingSql(true) },
   'tiers-lapsed': { kind: 'sql', sql: () => `
     SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
            u.name AS "member", ${TIER_NAME} AS "tier",
@@ -88,7 +99,8 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
      WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
   // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
-  // are not now, when no tier as high is current: the fill gate will refuse them at that tier.
+  // are not now, when no tier as high is current: the fill gate will refuse them at that tier. The
+  // highest current tier is a scalar subquery, so each candidate costs one probe of (membership, rank).
   'refused-next': { kind: 'sql', sql: () => `
     SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
            u.name AS "member", ${TIER_NAME} AS "tier",
@@ -102,9 +114,9 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
      WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
-       AND NOT EXISTS (SELECT 1 FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.rank >= t.rank AND c.id <> t.id
-                        AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date))` },
-  'proofs': { kind: 'computed', rows: ctx => proofRows(ctx, ctx.replacements.d90 as string) },
+       AND coalesce((SELECT max(c.rank) FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.id <> t.id
+                      AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date)), -1) < t.rank` },
+  'proofs': { kind: 'sql', sql: ctx => proofSql(ctx, ':d90') },
   'vessels-held': { kind: 'sql', sql: () => `
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
            v.tag AS "vessel", v.name AS "name", u.name AS "owner", to_char(v.updated_at AT TIME ZONE :tz, 'YYYY-MM-DD') AS "since",
@@ -126,15 +138,13 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
       }]
     })
   } },
+  // From the running tallies the fill log's trigger keeps (no count over the whole log per request).
   'event-fills': { kind: 'sql', sql: () => `
     SELECT e.id, 'event' AS link_kind, e.id::text AS link_id, e.site AS link_label,
-           e.held_on::text AS "heldOn", e.site AS "site", count(*) FILTER (WHERE f.allowed)::int AS "fills",
-           count(*) FILTER (WHERE NOT f.allowed)::int AS "refused",
-           count(*) FILTER (WHERE f.allowed AND f.supervisor_membership_id IS NOT NULL)::int AS "supervised",
+           e.held_on::text AS "heldOn", e.site AS "site", t.fills AS "fills", t.refused AS "refused", t.supervised AS "supervised",
            e.site AS search, NULL::text AS state, NULL::text AS due_on
-      FROM launch_events e JOIN fills f ON f.event_id = e.id
-     WHERE e.club_id = :clubId
-     GROUP BY e.id` },
+      FROM launch_event_fill_tallies t JOIN launch_events e ON e.id = t.event_id
+     WHERE t.club_id = :clubId` },
   'incidents': { kind: 'sql', sql: ctx => `
     SELECT i.id, CASE WHEN v.tag IS NOT NULL THEN 'vessel' WHEN i.event_id IS NOT NULL THEN 'event' ELSE 'member' END AS link_kind,
            coalesce(v.tag, i.event_id::text, i.reported_by_membership_id::text) AS link_id, coalesce(v.tag, e.site, ru.name) AS link_label,

@@ -6,7 +6,6 @@ import type { DeskCountDto, DeskCountsDto, DeskPageDto, DeskRowDto } from '#shar
 import { DESK_TABLES, DESK_TABLE_INFO, OFFICER_ONLY_COLUMNS, deskCsvCell, type DeskColumn, type DeskTable } from '#shared/utils/audit-desk'
 import { deskContext, type DeskContext } from './context'
 import { DESK_SOURCES, type DeskSourceRow } from './sources'
-import { deskCached } from './cache'
 
 /** The columns of `table` the reader of `ctx` may see (no injury details for an admin). */
 export function deskColumns(table: DeskTable, officer: boolean): DeskColumn[] {
@@ -65,10 +64,6 @@ function pageComputed(rows: DeskSourceRow[], q: { sort: string, dir: 'asc' | 'de
  */
 export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQuery, opts: { all?: boolean } = {}): Promise<DeskPageDto> {
   const ctx = await deskContext(actor)
-  return deskCached(`${ctx.clubId}:${ctx.officer}:${ctx.today}:${table}:${!!opts.all}:${JSON.stringify(query)}`, () => computeTablePage(ctx, table, query, opts))
-}
-
-async function computeTablePage(ctx: DeskContext, table: DeskTable, query: DeskQuery, opts: { all?: boolean }): Promise<DeskPageDto> {
   const q = checkedQuery(table, query)
   const columns = deskColumns(table, ctx.officer)
   const source = DESK_SOURCES[table]
@@ -130,5 +125,5 @@ async function countTable(ctx: DeskContext, table: DeskTable): Promise<DeskCount
 /** The desk's counts: one query per table (the proof table through the vessel standing service). */
 export async function deskCounts(actor: Actor): Promise<DeskCountsDto> {
   const ctx = await deskContext(actor)
-  return deskCached(`${ctx.clubId}:${ctx.today}:counts`, async () => ({ today: ctx.today, counts: await Promise.all(DESK_TABLES.map(t => countTable(ctx, t))) }))
+  return { today: ctx.today, counts: await Promise.all(DESK_TABLES.map(t => countTable(ctx, t))) }
 }
