@@ -48,7 +48,7 @@ export interface DeskExpiryWeekDto {
   proofs: number
 }
 
-/** One event's allowed fills by the filler's highest tier in force that day (index = rank; `none` without one). */
+/** One event's allowed fills by the tier each was made at (index = rank; `none` without one). */
 export interface DeskEventTiersDto {
   eventId: string
   heldOn: string

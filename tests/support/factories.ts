@@ -558,10 +558,13 @@ export async function makeLaunchEvent(o: { createdBy: string, heldOn?: string, s
 /**
  * A fill in the log, straight into the table (no gate): `memberId` filled `vesselId` at `eventId` on
  * `stationId` to `pressureBar` (default 5), recorded by `recordedBy` (default the member), supervised
- * by `supervisorId` (then also its recorder); allowed unless `reasons` are given.
+ * by `supervisorId` (then also its recorder); allowed unless `reasons` are given. Made at `tierRank`
+ * (default the member's highest tier in force on the event's day).
  */
-export async function makeFill(o: { eventId: string, stationId: string, memberId: string, vesselId: string, recordedBy?: string, supervisorId?: string, pressureBar?: number, waterVolumeL?: number, reasons?: { code: string, message: string }[], db?: string }): Promise<{ fillId: string }> {
-  const [e] = await sql<{ club_id: string, held_on: string }>('SELECT club_id, held_on::text FROM launch_events WHERE id = $1', [o.eventId], o.db)
+export async function makeFill(o: { eventId: string, stationId: string, memberId: string, vesselId: string, recordedBy?: string, supervisorId?: string, pressureBar?: number, waterVolumeL?: number, reasons?: { code: string, message: string }[], tierRank?: number | null, db?: string }): Promise<{ fillId: string }> {
+  const [e] = await sql<{ club_id: string, held_on: string, rank: number | null }>(
+    `SELECT e.club_id, e.held_on::text, (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = $2 AND t.first_granted_on <= e.held_on AND t.expires_on >= e.held_on AND t.revoked_at IS NULL) AS rank FROM launch_events e WHERE e.id = $1`,
+    [o.eventId, o.memberId], o.db)
   if (!e) throw new Error('makeFill: no such event')
   const pressureBar = o.pressureBar ?? 5
   const reasons = o.reasons ?? []
@@ -570,7 +573,7 @@ export async function makeFill(o: { eventId: string, stationId: string, memberId
     recordedByMembershipId: o.supervisorId ?? o.recordedBy ?? o.memberId, supervisorMembershipId: o.supervisorId ?? null,
     pressureBar, enteredPressure: pressureBar, enteredUnit: 'bar', waterVolumeL: o.waterVolumeL ?? 0.5,
     allowed: reasons.length === 0, permittedMaxBar: 25, limitingFactor: 'TIER', reasons: JSON.stringify(reasons),
-    storedEnergyJ: 1000, tntEquivalentKg: 0.0002, minimumDistanceM: 5,
+    storedEnergyJ: 1000, tntEquivalentKg: 0.0002, minimumDistanceM: 5, tierRank: o.tierRank === undefined ? e.rank : o.tierRank,
   }, o.db)
   return { fillId }
 }

@@ -6,6 +6,9 @@ import type { MigrationFn } from '../migrator'
  *
  * - `launch_event_fill_tallies`: per launch event with fills, its allowed, refused and supervised
  *   fills (the fill log is append-only, so an insert is the only change).
+ * - `launch_event_tier_fills`: per launch event and tier, its allowed fills. A fill now records the
+ *   tier it was made at (`fills.tier_rank`: the filler's highest valid tier as the gate saw it, NULL
+ *   for none); fills logged before this migration get the highest tier in force on the event's day.
  * - `vessel_proof_tallies`: per vessel with a passed proof, the day of its last pass and the allowed
  *   fills at events held on or after it. The desk uses it only to pick the few vessels whose proof may
  *   lapse soon; their standing itself comes from the rule's SQL mirror over the proof tests, fills and
@@ -17,6 +20,22 @@ import type { MigrationFn } from '../migrator'
  */
 export const up: MigrationFn = async ({ context: sequelize }) => {
   await sequelize.query(`
+    ALTER TABLE fills ADD COLUMN tier_rank integer CHECK (tier_rank BETWEEN 0 AND 9);
+    ALTER TABLE fills DISABLE TRIGGER fills_no_update_delete;
+    UPDATE fills f SET tier_rank = (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = f.membership_id
+      AND t.first_granted_on <= f.held_on AND t.expires_on >= f.held_on AND t.revoked_at IS NULL);
+    ALTER TABLE fills ENABLE TRIGGER fills_no_update_delete;
+
+    CREATE TABLE launch_event_tier_fills (
+      event_id uuid NOT NULL REFERENCES launch_events(id) ON DELETE RESTRICT,
+      club_id uuid NOT NULL REFERENCES clubs(id) ON DELETE RESTRICT,
+      tier_rank integer,
+      fills integer NOT NULL CHECK (fills >= 0)
+    );
+    CREATE UNIQUE INDEX launch_event_tier_fills_key ON launch_event_tier_fills (event_id, (coalesce(tier_rank, -1)));
+    INSERT INTO launch_event_tier_fills (event_id, club_id, tier_rank, fills)
+      SELECT event_id, club_id, tier_rank, count(*) FROM fills WHERE allowed GROUP BY event_id, club_id, tier_rank;
+
     CREATE TABLE launch_event_fill_tallies (
       event_id uuid PRIMARY KEY REFERENCES launch_events(id) ON DELETE RESTRICT,
       club_id uuid NOT NULL REFERENCES clubs(id) ON DELETE RESTRICT,
@@ -72,6 +91,9 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
           FROM new_fills GROUP BY event_id, club_id
         ON CONFLICT (event_id) DO UPDATE SET fills = t.fills + EXCLUDED.fills, refused = t.refused + EXCLUDED.refused,
                                              supervised = t.supervised + EXCLUDED.supervised;
+      INSERT INTO launch_event_tier_fills AS t (event_id, club_id, tier_rank, fills)
+        SELECT event_id, club_id, tier_rank, count(*) FROM new_fills WHERE allowed GROUP BY event_id, club_id, tier_rank
+        ON CONFLICT (event_id, (coalesce(tier_rank, -1))) DO UPDATE SET fills = t.fills + EXCLUDED.fills;
       UPDATE vessel_proof_tallies v SET fills_since_pass = v.fills_since_pass + n.n
         FROM (SELECT f.vessel_id, count(*)::int AS n FROM new_fills f JOIN vessel_proof_tallies p ON p.vessel_id = f.vessel_id
                WHERE f.allowed AND f.held_on >= p.last_pass_on GROUP BY f.vessel_id) n
@@ -99,5 +121,7 @@ export const down: MigrationFn = async ({ context: sequelize }) => {
     DROP FUNCTION IF EXISTS vessel_proof_tally_refresh(uuid);
     DROP TABLE IF EXISTS vessel_proof_tallies;
     DROP TABLE IF EXISTS launch_event_fill_tallies;
+    DROP TABLE IF EXISTS launch_event_tier_fills;
+    ALTER TABLE fills DROP COLUMN IF EXISTS tier_rank;
   `)
 }

@@ -112,9 +112,9 @@ async function insertFill(actor: Actor, input: FillRequest, { dto, facts }: Judg
   const [row] = await useDb().query<{ id: string, created_at: Date }>(
     `INSERT INTO fills (club_id, event_id, held_on, station_id, membership_id, vessel_id, recorded_by_membership_id, supervisor_membership_id,
        pressure_bar, entered_pressure, entered_unit, water_volume_l, allowed, permitted_max_bar, limiting_factor, reasons,
-       stored_energy_j, tnt_equivalent_kg, minimum_distance_m)
+       stored_energy_j, tnt_equivalent_kg, minimum_distance_m, tier_rank)
      VALUES (:clubId, :eventId, :heldOn, :stationId, :memberId, :vesselId, :callerId, :supervisorId,
-       :pressureBar, :pressure, :unit, :water, :allowed, :max, :factor, CAST(:reasons AS jsonb), :energy, :tnt, :distance)
+       :pressureBar, :pressure, :unit, :water, :allowed, :max, :factor, CAST(:reasons AS jsonb), :energy, :tnt, :distance, :tierRank)
      RETURNING id, created_at`,
     {
       replacements: {
@@ -125,6 +125,8 @@ async function insertFill(actor: Actor, input: FillRequest, { dto, facts }: Judg
         pressureBar: dto.requested.pressureBar, pressure: input.pressure, unit: input.unit, water: input.waterVolumeL,
         allowed: dto.allowed, max: dto.permittedMaxBar, factor: dto.limitingFactor, reasons: JSON.stringify(dto.reasons),
         energy: dto.airCharge.storedEnergyJ, tnt: dto.airCharge.tntEquivalentKg, distance: dto.airCharge.minimumDistanceM,
+        // The filler's own highest valid tier as the gate saw it (the desk's "fills by tier").
+        tierRank: facts.member.validRank,
       },
       type: QueryTypes.SELECT,
       transaction,

@@ -9,7 +9,7 @@ import { latestTrainingSql, proofSql } from './sources'
 /**
  * The desk's charts: what falls due in each of the next 26 weeks (tiers in force, members' latest
  * passed training records and fit tests, proofs of vessels in service), and the allowed fills of the
- * last events with fills by the filler's highest tier in force on the event's day.
+ * last events with fills by the tier each fill was made at (the filler's highest valid tier).
  */
 export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
   const ctx = await deskContext(actor)
@@ -26,18 +26,13 @@ export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
        UNION ALL
        SELECT 'proofs', p.due_on FROM (${proofSql(ctx, ':until')}) p WHERE p.state = 'lapsing'`,
       { replacements, type: QueryTypes.SELECT }),
-    // Fills grouped by member first, so each member's tier on the day is looked up once per event.
+    // The running tally per event and tier (kept by a trigger on the fill log).
     db.query<{ event_id: string, held_on: string, site: string, rank: number | null, n: number }>(
-      `WITH ev AS (SELECT e.id, e.held_on, e.site FROM launch_events e
-                    WHERE e.club_id = :clubId AND e.held_on <= CAST(:today AS date) AND EXISTS (SELECT 1 FROM launch_event_fill_tallies t WHERE t.event_id = e.id)
-                    ORDER BY e.held_on DESC, e.id LIMIT :events),
-            per AS (SELECT f.event_id, f.membership_id, count(*)::int AS n FROM fills f JOIN ev ON ev.id = f.event_id
-                     WHERE f.allowed GROUP BY f.event_id, f.membership_id)
-       SELECT ev.id AS event_id, ev.held_on::text AS held_on, ev.site, tr.rank, sum(per.n)::int AS n
-         FROM ev LEFT JOIN per ON per.event_id = ev.id
-         LEFT JOIN LATERAL (SELECT max(t.rank) AS rank FROM member_tiers t WHERE t.membership_id = per.membership_id
-                             AND t.first_granted_on <= ev.held_on AND t.expires_on >= ev.held_on AND t.revoked_at IS NULL) tr ON true
-        GROUP BY ev.id, ev.held_on, ev.site, tr.rank`,
+      `WITH ev AS (SELECT e.id, e.held_on, e.site FROM launch_events e JOIN launch_event_fill_tallies t ON t.event_id = e.id
+                    WHERE e.club_id = :clubId AND e.held_on <= CAST(:today AS date)
+                    ORDER BY e.held_on DESC, e.id LIMIT :events)
+       SELECT ev.id AS event_id, ev.held_on::text AS held_on, ev.site, t.tier_rank AS rank, t.fills AS n
+         FROM ev LEFT JOIN launch_event_tier_fills t ON t.event_id = ev.id`,
       { replacements, type: QueryTypes.SELECT }),
   ])
   const weeks: DeskExpiryWeekDto[] = Array.from({ length: DESK_CHART_WEEKS }, (_, i) => ({
