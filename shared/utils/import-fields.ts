@@ -38,7 +38,7 @@ export const IMPORT_FIELD_LABELS: Record<ImportField, string> = {
   tierAssessor: 'Pressure tier: assessor name',
 }
 
-/** Headings (lower-case, letters and digits only) that suggest a field; the first match wins. */
+/** Headings (lower-case, letters and digits only) that suggest a field; the leftmost such column wins. */
 const HEADING_HINTS: Record<ImportField, string[]> = {
   name: ['name', 'fullname', 'membername', 'member'],
   email: ['email', 'emailaddress', 'mail'],
@@ -67,13 +67,10 @@ export function suggestMapping(headings: readonly string[]): Partial<Record<Impo
   const taken = new Set<number>()
   const mapping: Partial<Record<ImportField, number>> = {}
   for (const field of IMPORT_FIELDS) {
-    for (const hint of HEADING_HINTS[field]) {
-      const index = keys.findIndex((k, i) => k === hint && !taken.has(i))
-      if (index >= 0) {
-        mapping[field] = index
-        taken.add(index)
-        break
-      }
+    const index = keys.findIndex((k, i) => !taken.has(i) && HEADING_HINTS[field].includes(k))
+    if (index >= 0) {
+      mapping[field] = index
+      taken.add(index)
     }
   }
   return mapping
