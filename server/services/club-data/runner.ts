@@ -1,12 +1,12 @@
 import { rm } from 'node:fs/promises'
-import { QueryTypes } from 'sequelize'
+import { QueryTypes, type Transaction } from 'sequelize'
 import { Club, Membership, User } from '../../models'
 import type { Actor } from '../../utils/auth'
 import type { ImportRow } from '#shared/schemas/club-data'
 import { recordAudit } from '../audit'
 import { applyImportRow, type AppliedOutcome } from './apply'
 import { importFilePath } from './jobs'
-import { clubLookups, membersByEmail } from './lookups'
+import { clubLookups, membersByEmail, type ClubLookups } from './lookups'
 
 /*
  * The import job runs wherever there is a server to run it:
@@ -58,35 +58,49 @@ async function jobActor(job: ClaimedJob): Promise<Actor> {
 
 interface StagingRow { line: number, email: string | null, outcome: string, row_values: ImportRow | null }
 
-/** Writes the next batch of claimed `job`; false when no row was left. Throws LostClaim when another server holds the job now. */
-async function runBatch(job: ClaimedJob, actor: Actor, lookups: Awaited<ReturnType<typeof clubLookups>>): Promise<boolean> {
-  return useDb().transaction(async (transaction) => {
+type Counts = Record<AppliedOutcome | 'refused', number>
+
+/**
+ * Writes `rows` in `transaction`. With `savepoints`, each row stands behind its own savepoint: a row
+ * the database refuses (a rule the dry run could not see) is counted refused and the rest goes on.
+ */
+async function writeRows(job: ClaimedJob, actor: Actor, lookups: ClubLookups, rows: StagingRow[], savepoints: boolean, transaction: Transaction): Promise<Counts> {
+  const members = await membersByEmail(job.club_id, [...new Set(rows.filter(r => r.row_values).map(r => r.email!))], transaction)
+  const counts: Counts = { created: 0, updated: 0, unchanged: 0, refused: 0 }
+  for (const r of rows) {
+    const member = r.email ? members.get(r.email) : undefined
+    if (!r.row_values || member?.membership_id === job.created_by_membership_id) {
+      counts.refused++
+      continue
+    }
+    const applied = savepoints
+      ? await useDb().transaction({ transaction }, t => applyImportRow(actor, r.row_values!, member, lookups, t)).catch((error: unknown) => {
+          console.error(`[imports] job ${job.id} row ${r.line} refused by the database:`, (error as Error).message)
+          return null
+        })
+      : await applyImportRow(actor, r.row_values, member, lookups, transaction)
+    if (!applied) {
+      counts.refused++
+      continue
+    }
+    counts[applied.outcome]++
+    members.set(r.email!, applied.member)
+  }
+  return counts
+}
+
+/**
+ * Writes the next batch of claimed `job`; false when no row was left. A batch the database refuses
+ * is written again row by row behind savepoints (quick when all is well, exact when it is not).
+ * Throws LostClaim when another server holds the job now.
+ */
+async function runBatch(job: ClaimedJob, actor: Actor, lookups: ClubLookups): Promise<boolean> {
+  const attempt = (savepoints: boolean) => useDb().transaction(async (transaction) => {
     const rows = await useDb().query<StagingRow>(
       'SELECT line, email, outcome, row_values FROM import_rows WHERE job_id = :id AND NOT done ORDER BY line LIMIT :n',
       { replacements: { id: job.id, n: RUN_BATCH }, type: QueryTypes.SELECT, transaction })
     if (!rows.length) return false
-    const members = await membersByEmail(job.club_id, [...new Set(rows.filter(r => r.row_values).map(r => r.email!))], transaction)
-    const counts: Record<AppliedOutcome | 'refused', number> = { created: 0, updated: 0, unchanged: 0, refused: 0 }
-    for (const r of rows) {
-      const member = r.email ? members.get(r.email) : undefined
-      if (!r.row_values || member?.membership_id === job.created_by_membership_id) {
-        counts.refused++
-        continue
-      }
-      // Each row behind a savepoint: a row the database refuses (a rule the dry run could not see) is
-      // counted refused, and the rest of the batch goes on.
-      const applied = await useDb().transaction({ transaction }, t => applyImportRow(actor, r.row_values!, member, lookups, t))
-        .catch((error: unknown) => {
-          console.error(`[imports] job ${job.id} row ${r.line} refused by the database:`, (error as Error).message)
-          return null
-        })
-      if (!applied) {
-        counts.refused++
-        continue
-      }
-      counts[applied.outcome]++
-      members.set(r.email!, applied.member)
-    }
+    const counts = await writeRows(job, actor, lookups, rows, savepoints, transaction)
     await useDb().query('UPDATE import_rows SET done = true WHERE job_id = :id AND line IN (:lines)',
       { replacements: { id: job.id, lines: rows.map(r => r.line) }, transaction })
     const [kept] = await useDb().query<{ id: string }>(`
@@ -98,6 +112,13 @@ async function runBatch(job: ClaimedJob, actor: Actor, lookups: Awaited<ReturnTy
     if (!kept) throw new LostClaim()
     return true
   })
+  try {
+    return await attempt(false)
+  }
+  catch (error) {
+    if (error instanceof LostClaim) throw error
+    return attempt(true)
+  }
 }
 
 /** Ends claimed `job` as `status` (done or failed): the import's audit event with its counts, then its staging rows and file deleted. */
