@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto'
 import { describe, expect, it } from 'vitest'
 import Papa from 'papaparse'
-import { setupBrowser, signedInPage } from '../support/browser'
+import { goTo, setupBrowser, signedInPage } from '../support/browser'
 import { makeMember } from '../support/factories'
 import { sql } from '../support/db'
 
@@ -19,7 +19,7 @@ describe('moving a club in', () => {
 
     const page = await signedInPage(admin.email, admin.password)
     try {
-      await page.goto(new URL('/members', page.url()).toString())
+      await goTo(page, '/members')
       await page.getByTestId('members-import-link').click()
       await page.waitForURL(url => url.pathname === '/members/import')
       await page.getByTestId('import-file').setInputFiles({ name: 'roster.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) })
