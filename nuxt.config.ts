@@ -69,6 +69,10 @@ export default defineNuxtConfig({
     paymentsApiHost: '',
     paymentsApiPort: '',
     paymentsApiProtocol: '',
+    // Roster imports: the lease (s) a server holds a running import for, renewed with every batch, and
+    // how often (s) a server looks for an import whose server stopped (0 = only at boot and on request).
+    importLeaseSeconds: 60,
+    importSweepSeconds: 30,
   },
   compatibilityDate: '2025-07-15',
   nitro: {

@@ -41,6 +41,8 @@ export const REQUEST_RULES: Record<string, Partial<RequestRule>> = {
   'POST /api/photos': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
   // A training record's evidence file (PDF, JPEG or PNG, 10 MB at most) with its few short fields.
   'POST /api/training/evidence': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
+  // A roster file for the import (CSV, 20 MB at most).
+  'POST /api/imports': { maxBytes: 20 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
   // A tier sign-off's evidence file (PDF, JPEG or PNG, 10 MB at most).
   'POST /api/tiers/signoffs/[id]/evidence': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
   // The payment service's signed events: from its own servers, JSON, read raw for the signature check.

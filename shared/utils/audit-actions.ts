@@ -65,6 +65,8 @@ export const AUDIT_ACTIONS = [
   'incident.review',
   'incident.close',
   'incident.suspend_tier',
+  'member.imported',
+  'club_data.import',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -121,6 +123,8 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'incident.report': { label: 'Reported an incident', meaning: 'A member reported a burst, uncommanded launch, injury, near miss or other incident; a vessel it names was quarantined at once.' },
   'incident.review': { label: 'Reviewed an incident', meaning: 'The safety officer changed an incident\'s review notes, findings or actions.' },
   'incident.close': { label: 'Closed an incident', meaning: 'The safety officer closed an incident with its outcome; a quarantined vessel stays quarantined until released.' },
+  'member.imported': { label: 'Set roles or paid-through by import', meaning: 'A roster import gave a member roles or a paid-through date (roles are only ever added, paid-through only moved later).' },
+  'club_data.import': { label: 'Imported a roster', meaning: 'An admin imported a roster file; the event counts the rows created, updated, unchanged and refused.' },
   'incident.suspend_tier': { label: 'Suspended a tier over an incident', meaning: 'The safety officer suspended the pressure tier of a person involved, from the incident page.' },
 }
 
@@ -153,6 +157,7 @@ export const AUDIT_SUBJECT_LABELS: Record<string, string> = {
   fill_station: 'A fill station',
   launch_event: 'A launch event',
   incident: 'An incident',
+  import_job: 'A roster import',
 }
 
 /** The subject types the audit trail's filter offers (those with words above). */

@@ -16,6 +16,7 @@ export const ROLE_LABELS: Record<Role, string> = {
 export const CAPABILITIES = {
   'members.read': ['instructor', 'safety_officer', 'admin'],
   'members.manage': ['admin'],
+  'members.import': ['admin'],
   'roles.assign': ['admin'],
   'training.run': ['instructor'],
   'training.flag': ['instructor', 'safety_officer'],

@@ -63,6 +63,12 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
   'GET /api/audit': only(200, 'safety', 'admin'),
+  'POST /api/imports': only(400, 'admin'), // no multipart form
+  'GET /api/imports/[id]': only(404, 'admin'), // [id] is a membership id here: no such import
+  'DELETE /api/imports/[id]': only(404, 'admin'),
+  'POST /api/imports/[id]/dry-run': only(400, 'admin'),
+  'POST /api/imports/[id]/run': only(400, 'admin'),
+  'GET /api/imports/[id]/refused': only(404, 'admin'),
   'GET /api/audit/desk': only(200, 'safety', 'admin'),
   'GET /api/audit/desk/charts': only(200, 'safety', 'admin'),
   'GET /api/audit/desk/[table]': only(200, 'safety', 'admin'), // admins without injury details

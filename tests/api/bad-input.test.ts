@@ -22,6 +22,7 @@ const NO_BODY: Record<string, string> = {
   'POST /api/outbox/run': 'runs the notice job; takes no body',
   'POST /api/outbox/[id]/retry': 'queues the notice in the path again; takes no body',
   'DELETE /api/me/sessions/[id]': 'signs out the session in the path; takes no body',
+  'DELETE /api/imports/[id]': 'drops the import in the path before it starts; takes no body',
   'POST /api/vessels/[id]/proof-requests': 'asks for a proof test of the vessel in the path; takes no body',
   'DELETE /api/photos/[id]': 'removes the photo in the path; takes no body',
   'POST /api/training/sessions/[id]/enrolment': 'enrols the caller in the session in the path; takes no body',

@@ -5,6 +5,7 @@ import { CAPABILITIES, rolesCan, capabilitiesOf, normaliseRoles, ROLES, type Cap
 const BRIEF: Record<Capability, string[]> = {
   'members.read': ['instructor', 'safety_officer', 'admin'],
   'members.manage': ['admin'],
+  'members.import': ['admin'],
   'roles.assign': ['admin'],
   'training.run': ['instructor'],
   'training.flag': ['instructor', 'safety_officer'],
