@@ -122,7 +122,7 @@ describe('Download my data', () => {
     expect(json['membership.json']).toMatchObject({ id: me.memberId, phone: '+44 7700 900123', status: 'active' })
     expect(json['payments.json'].map((p: { reference: string, amountMinor: number }) => [p.reference, p.amountMinor])).toEqual([[`Mira envelope ${tag}`, 6000]])
     expect(json['training.json'].map((r: { courseCode: string, traineeName: string }) => [r.courseCode, r.traineeName])).toEqual([['pressure_safety', me.name]])
-    expect(json['tiers.json'].tiers.map((t: { rank: number, state: string }) => [t.rank, t.state])).toEqual([[1, 'valid']])
+    expect(json['tiers.json'].held.map((t: { rank: number, state: string }) => [t.rank, t.state])).toEqual([[1, 'valid']])
     const [vessel] = json['vessels.json']
     expect(json['vessels.json']).toHaveLength(1)
     expect(vessel).toMatchObject({ id: ids.vessel, name: `Mira's bottle ${tag}` })
