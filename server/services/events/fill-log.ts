@@ -74,13 +74,13 @@ export async function eventFillLog(actor: Actor, id: string, query: FillLogQuery
   }
 }
 
-/** Every fill and refused attempt of event `id` the filter selects, as CSV rows under `EVENT_FILL_CSV_HEADER` (numbers stay numbers). */
+/** Every fill and refused attempt of event `id` the filter selects, as CSV rows under `EVENT_FILL_CSV_HEADER` (pressures with their fixed decimals, read as numbers). */
 export async function eventFillLogRows(actor: Actor, id: string, query: FillLogQuery): Promise<CsvValue[][]> {
   const { items } = await eventFillLog(actor, id, query, { all: true })
   return items.map(f => [
-    f.recordedAt, f.heldOn, f.member.name, f.vesselTag, f.stationName, Math.round(f.pressureBar * 100) / 100, `${f.enteredPressure} ${f.enteredUnit}`,
+    f.recordedAt, f.heldOn, f.member.name, f.vesselTag, f.stationName, f.pressureBar.toFixed(2), `${f.enteredPressure} ${f.enteredUnit}`,
     f.waterVolumeL, f.allowed ? 'allowed' : 'refused', f.reasons.map(r => r.code).join(' '),
-    Math.floor(f.permittedMaxBar * 10 + 1e-9) / 10, LIMITING_FACTOR_WORDS[f.limitingFactor].label,
+    (Math.floor(f.permittedMaxBar * 10 + 1e-9) / 10).toFixed(1), LIMITING_FACTOR_WORDS[f.limitingFactor].label,
     Math.ceil(f.minimumDistanceM), f.recordedByName, f.supervisorName,
   ])
 }
