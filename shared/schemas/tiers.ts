@@ -71,3 +71,9 @@ export const MemberTierParamSchema = z.object({
   id: z.string().uuid('Not a valid id').transform(id => id.toLowerCase()),
   rank: z.coerce.number().int().min(0).max(4),
 })
+
+/** The tier holdings export: the whole club's, or one member's. */
+export const TierHoldingsQuerySchema = z.object({
+  membershipId: z.string().uuid('Not a valid member').transform(id => id.toLowerCase()).optional(),
+})
+export type TierHoldingsQuery = z.infer<typeof TierHoldingsQuerySchema>

@@ -2,6 +2,7 @@
  * The safety officer's audit desk: its tables, their columns and what each sorts and filters by. The
  * server, the desk page and the CSV take the columns from here, so a column has one label everywhere.
  */
+import { csvCell } from './csv'
 
 export const DESK_TABLES = [
   'tiers-expiring', 'training-expiring', 'fit-tests-expiring', 'tiers-lapsed', 'refused-next',
@@ -113,9 +114,5 @@ export function deskWeekOf(date: string, today: string): number | null {
   return week < DESK_CHART_WEEKS ? week : null
 }
 
-/** One CSV cell: quoted when needed, and a leading =, +, - or @ defused (it would run as a formula in a spreadsheet). */
-export function deskCsvCell(v: string | number | null): string {
-  const s = v === null ? '' : String(v)
-  const safe = /^[=+\-@]/.test(s) ? `'${s}` : s
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
-}
+/** One CSV cell of a desk table: the shared CSV writer's cell (quoted when needed, a leading formula character defused). */
+export const deskCsvCell: (v: string | number | null) => string = csvCell

@@ -53,6 +53,7 @@ const MATRIX: Record<string, Row> = {
   'GET /api/waivers': only(200, 'safety'),
   'POST /api/waivers': only(400, 'safety'), // an empty body: nothing is published in the demo club
   'GET /api/members': only(200, 'instructor', 'safety', 'admin'),
+  'GET /api/members/export': only(200, 'instructor', 'safety', 'admin'),
   'GET /api/members/[id]': only(200, 'instructor', 'safety', 'admin'), // another member's page
   'PATCH /api/members/[id]': only(400, 'admin'),
   'POST /api/members/[id]/approve': only(400, 'admin'),
@@ -80,6 +81,7 @@ const MATRIX: Record<string, Row> = {
   'GET /api/calc/air-charge': open(400), // public; no pressure or volume given
   'POST /api/vessels': signedIn(400), // every member registers their own
   'GET /api/vessels': signedIn(200), // a member's own; the whole club's with vessels.read_all
+  'GET /api/vessels/export': signedIn(200), // as the list: a member's own; the club's with vessels.read_all
   'GET /api/vessels/[id]': signedIn(404), // [id] is a membership id here: no such vessel
   'POST /api/vessels/[id]/proof-requests': signedIn(404), // the owner's own; no body, no such vessel
   'GET /api/proof-requests': only(200, 'instructor', 'safety'), // the demo safety officer is an instructor too
@@ -113,6 +115,7 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/training/sessions/[id]/attendance': only(400, 'instructor', 'safety'),
   'POST /api/training/sessions/[id]/issue': only(400, 'instructor', 'safety'),
   'GET /api/training/records': signedIn(200), // the caller's own
+  'GET /api/training/records/export': signedIn(200), // the caller's own; an officer's: the club's
   'POST /api/training/records': only(400, 'instructor', 'safety'), // a course taken elsewhere
   'POST /api/training/records/[id]/retraining': only(400, 'instructor', 'safety'), // training.flag
   'POST /api/training/evidence': only(400, 'instructor', 'safety'), // an empty multipart form
@@ -152,6 +155,7 @@ const MATRIX: Record<string, Row> = {
   'POST /api/fills/check': signedIn(400), // a member for their own fills, staff for anyone: the body is checked first
   'POST /api/fills': signedIn(400),
   'GET /api/tiers': signedIn(200), // every member reads the club's tier table
+  'GET /api/tiers/export': only(200, 'instructor', 'safety', 'admin'), // every member's tiers (members.read)
   'PUT /api/tiers': only(400, 'safety'), // policy.edit
   'GET /api/members/[id]/tiers': only(200, 'instructor', 'safety', 'admin'), // members.read, or the member's own
   'POST /api/members/[id]/tiers': only(400, 'instructor', 'safety'), // tiers.grant
@@ -178,6 +182,7 @@ const MATRIX: Record<string, Row> = {
   'GET /api/events/[id]/fills/export': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/events/[id]/roster': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/me/fills': signedIn(200), // the member's own
+  'GET /api/me/data-export': signedIn(200), // the member's own data, a ZIP
   'GET /api/incidents': signedIn(200), // officers all, anyone else their own reports
   'POST /api/incidents': signedIn(400), // any signed-in member reports
   'GET /api/incidents/[id]': signedIn(404), // [id] is a membership id here: no such incident

@@ -7,6 +7,7 @@ import { formatMoney, PAYMENT_METHOD_LABELS, PAYMENT_STATUS_LABELS } from '#shar
 import type { PaymentListQuery } from '#shared/schemas/dues'
 import type { MonthTotalDto, PaymentDto, PaymentListDto, StandingListItemDto } from '#shared/types/dues'
 import { receiptLabel } from './ledger'
+import type { CsvValue } from '#shared/utils/csv'
 
 const SORT_SQL: Record<PaymentListQuery['sort'], string> = {
   paidOn: 'p.paid_on', createdAt: 'p.created_at', amount: 'p.amount_minor', member: 'u.name', receiptNumber: 'p.receipt_number',
@@ -71,22 +72,16 @@ export async function listPayments(actor: Actor, query: PaymentListQuery & { mem
   }
 }
 
-const csvCell = (v: string | number | null) => {
-  const s = v === null ? '' : String(v)
-  // A leading =, +, - or @ would run as a formula in a spreadsheet (CSV injection).
-  const safe = /^[=+\-@]/.test(s) ? `'${s}` : s
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
-}
+/** The payments CSV's columns. */
+export const PAYMENT_CSV_HEADER = ['receipt', 'member', 'plan', 'method', 'status', 'amount', 'currency', 'paid_on', 'paid_through_before', 'paid_through_after', 'reference'] as const
 
-/** Every payment the filters select, as CSV (a header line, then one line per payment). */
-export async function paymentsCsv(actor: Actor, query: PaymentListQuery): Promise<string> {
+/** Every payment the filters select, as CSV rows under `PAYMENT_CSV_HEADER` (the amount in the currency's units, its decimals kept). */
+export async function paymentRows(actor: Actor, query: PaymentListQuery): Promise<CsvValue[][]> {
   const { items } = await listPayments(actor, query, { all: true })
-  const header = ['receipt', 'member', 'plan', 'method', 'status', 'amount', 'currency', 'paid_on', 'paid_through_before', 'paid_through_after', 'reference']
-  const lines = items.map(p => [
+  return items.map(p => [
     p.receiptNumber ? receiptLabel(p.receiptNumber) : '', p.memberName, p.planName, PAYMENT_METHOD_LABELS[p.method], PAYMENT_STATUS_LABELS[p.status],
     formatMoney(p.amountMinor, p.currency).split(' ')[1]!, p.currency, p.paidOn, p.paidThroughBefore, p.paidThroughAfter, p.reference,
-  ].map(csvCell).join(','))
-  return [header.join(','), ...lines].join('\r\n') + '\r\n'
+  ])
 }
 
 /** Money received and refunded per calendar month (of the payment's date) and currency, newest first. */

@@ -5,6 +5,7 @@ import type { FillLogRowDto, MyFillDto } from '#shared/types/events'
 import type { Paged } from '#shared/types/common'
 import type { FillReason, LimitingFactor } from '#shared/utils/fill-reasons'
 import { LIMITING_FACTOR_WORDS } from '#shared/utils/fill-reasons'
+import type { CsvValue } from '#shared/utils/csv'
 
 interface FillLogRow {
   id: string
@@ -73,26 +74,20 @@ export async function eventFillLog(actor: Actor, id: string, query: FillLogQuery
   }
 }
 
-const csvCell = (v: string | number | null) => {
-  const s = v === null ? '' : String(v)
-  // A leading =, +, - or @ would run as a formula in a spreadsheet (CSV injection).
-  const safe = /^[=+\-@]/.test(s) ? `'${s}` : s
-  return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
-}
-
-/** Every fill and refused attempt of event `id` the filter selects, as CSV (a header line, then one line each). */
-export async function eventFillLogCsv(actor: Actor, id: string, query: FillLogQuery): Promise<string> {
+/** Every fill and refused attempt of event `id` the filter selects, as CSV rows under `EVENT_FILL_CSV_HEADER` (pressures with their fixed decimals, read as numbers). */
+export async function eventFillLogRows(actor: Actor, id: string, query: FillLogQuery): Promise<CsvValue[][]> {
   const { items } = await eventFillLog(actor, id, query, { all: true })
-  const header = ['recorded_at', 'held_on', 'member', 'vessel', 'station', 'pressure_bar', 'entered', 'water_l', 'outcome', 'reasons',
-    'permitted_max_bar', 'limited_by', 'standoff_m', 'recorded_by', 'supervisor']
-  const lines = items.map(f => [
+  return items.map(f => [
     f.recordedAt, f.heldOn, f.member.name, f.vesselTag, f.stationName, f.pressureBar.toFixed(2), `${f.enteredPressure} ${f.enteredUnit}`,
     f.waterVolumeL, f.allowed ? 'allowed' : 'refused', f.reasons.map(r => r.code).join(' '),
     (Math.floor(f.permittedMaxBar * 10 + 1e-9) / 10).toFixed(1), LIMITING_FACTOR_WORDS[f.limitingFactor].label,
     Math.ceil(f.minimumDistanceM), f.recordedByName, f.supervisorName,
-  ].map(csvCell).join(','))
-  return [header.join(','), ...lines].join('\r\n') + '\r\n'
+  ])
 }
+
+/** The event fill log CSV's columns. */
+export const EVENT_FILL_CSV_HEADER = ['recorded_at', 'held_on', 'member', 'vessel', 'station', 'pressure_bar', 'entered', 'water_l', 'outcome', 'reasons',
+  'permitted_max_bar', 'limited_by', 'standoff_m', 'recorded_by', 'supervisor'] as const
 
 /** The signed-in member's own fills and refused attempts, newest first, a page at a time. */
 export async function myFills(actor: Actor, query: MyFillsQuery): Promise<Paged<MyFillDto>> {
