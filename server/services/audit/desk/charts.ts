@@ -24,12 +24,12 @@ async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
   const [dated, fillRows, proofs] = await Promise.all([
     db.query<{ kind: 'tiers' | 'training' | 'fitTests', due: string }>(
       `SELECT 'tiers' AS kind, t.expires_on::text AS due FROM member_tiers t JOIN memberships m ON m.id = t.membership_id
-        WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+        WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
           AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)
        UNION ALL
        SELECT CASE WHEN c.code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, r.expires_on::text
          FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-                WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
+                WHERE club_id = :clubId AND result = 'pass' AND confirmed_at IS NOT NULL ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
          JOIN courses c ON c.id = r.course_id JOIN memberships m ON m.id = r.membership_id
         WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL
           AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)`,
@@ -44,7 +44,7 @@ async function computeCharts(ctx: DeskContext): Promise<DeskChartsDto> {
        SELECT ev.id AS event_id, ev.held_on::text AS held_on, ev.site, tr.rank, sum(per.n)::int AS n
          FROM ev LEFT JOIN per ON per.event_id = ev.id
          LEFT JOIN LATERAL (SELECT max(t.rank) AS rank FROM member_tiers t WHERE t.membership_id = per.membership_id
-                             AND t.first_granted_on <= ev.held_on AND t.expires_on >= ev.held_on AND t.revoked_at IS NULL) tr ON true
+                             AND t.first_granted_on <= ev.held_on AND t.expires_on >= ev.held_on AND t.revoked_at IS NULL AND t.confirmed_at IS NOT NULL) tr ON true
         GROUP BY ev.id, ev.held_on, ev.site, tr.rank`,
       { replacements, type: QueryTypes.SELECT }),
     proofRows(ctx, until),

@@ -36,7 +36,7 @@ const latestTraining = (fitTests: boolean) => `
          u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
          u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on
     FROM (SELECT DISTINCT ON (membership_id, course_id) * FROM training_records
-           WHERE club_id = :clubId AND result = 'pass' ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
+           WHERE club_id = :clubId AND result = 'pass' AND confirmed_at IS NOT NULL ORDER BY membership_id, course_id, trained_to DESC, created_at DESC) r
     JOIN courses c ON c.id = r.course_id
     JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
    WHERE r.retraining_required_at IS NULL AND m.resigned_at IS NULL AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'
@@ -73,7 +73,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            u.name AS search, NULL::text AS state, t.expires_on::text AS due_on
       FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
   'training-expiring': { kind: 'sql', sql: () => latestTraining(false) },
   'fit-tests-expiring': { kind: 'sql', sql: () => latestTraining(true) },
@@ -85,7 +85,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
       FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
   // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
   // are not now, when no tier as high is current: the fill gate will refuse them at that tier.
@@ -99,11 +99,11 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
       CROSS JOIN LATERAL (SELECT f.created_at, f.held_on FROM fills f WHERE f.membership_id = t.membership_id AND f.allowed
                            ORDER BY f.created_at DESC LIMIT 1) lf
-     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
        AND NOT EXISTS (SELECT 1 FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.rank >= t.rank AND c.id <> t.id
-                        AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date))` },
+                        AND c.confirmed_at IS NOT NULL AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date))` },
   'proofs': { kind: 'computed', rows: ctx => proofRows(ctx, ctx.replacements.d90 as string) },
   'vessels-held': { kind: 'sql', sql: () => `
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
