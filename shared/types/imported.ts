@@ -29,6 +29,7 @@ export interface UnconfirmedTierDto {
   expiresOn: string
   /** The assessor the imported file names (free text), if any. */
   importedAssessorName: string | null
+  /** When the import last wrote it (ISO). */
   importedAt: string
   /** Why the caller may not confirm it (the usual assessor rules), or null when they may. */
   problem: string | null

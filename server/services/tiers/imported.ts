@@ -20,12 +20,12 @@ interface UnconfirmedTierRow {
   membership_id: string
   member_name: string
   rank: number
-  name: string | null
+  name: string
   first_granted_on: string
   signed_on: string
   expires_on: string
   imported_assessor_name: string | null
-  created_at: Date
+  updated_at: Date
 }
 
 /**
@@ -36,19 +36,19 @@ export async function unconfirmedTiers(actor: Actor): Promise<UnconfirmedTierDto
   const [rows, myRank] = await Promise.all([
     useDb().query<UnconfirmedTierRow>(
       `SELECT t.id, t.membership_id, u.name AS member_name, t.rank, l.name, t.first_granted_on::text AS first_granted_on,
-              t.signed_on::text AS signed_on, t.expires_on::text AS expires_on, t.imported_assessor_name, t.created_at
-         FROM member_tiers t LEFT JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+              t.signed_on::text AS signed_on, t.expires_on::text AS expires_on, t.imported_assessor_name, t.updated_at
+         FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
          JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
         WHERE t.club_id = :clubId AND t.confirmed_at IS NULL
-        ORDER BY t.created_at, lower(u.name), t.rank, t.id LIMIT :limit`,
+        ORDER BY t.updated_at, lower(u.name), t.rank, t.id LIMIT :limit`,
       { replacements: { clubId: actor.club.id, limit: LIST_LIMIT }, type: QueryTypes.SELECT }),
     validRankOf(actor.membership.id, clubToday(actor.club)),
   ])
   const me = { membershipId: actor.membership.id, roles: actor.roles, validRank: myRank }
   return rows.map(r => ({
     id: r.id, membershipId: r.membership_id, memberName: r.member_name, rank: r.rank as TierRank, code: tierCode(r.rank),
-    name: r.name ?? tierCode(r.rank), firstGrantedOn: r.first_granted_on, signedOn: r.signed_on, expiresOn: r.expires_on,
-    importedAssessorName: r.imported_assessor_name, importedAt: new Date(r.created_at).toISOString(),
+    name: r.name, firstGrantedOn: r.first_granted_on, signedOn: r.signed_on, expiresOn: r.expires_on,
+    importedAssessorName: r.imported_assessor_name, importedAt: new Date(r.updated_at).toISOString(),
     problem: assessorProblem(me, r.membership_id, r.rank as TierRank),
   }))
 }
