@@ -65,7 +65,7 @@ export async function sendWelcomes(actor: Actor): Promise<WelcomeSentDto> {
   }
   if (queued) {
     await recordAudit(actor, actor.club.id, {
-      action: 'member.welcome', subjectType: 'club', subjectId: actor.club.id, after: { queued },
+      action: 'member.welcome', subjectType: 'club', subjectId: actor.club.id, after: { welcomesQueued: queued },
     })
     kickNoticeQueue()
   }

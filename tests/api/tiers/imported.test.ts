@@ -79,7 +79,8 @@ describe('tier rules and the confirm lists', () => {
 
   it('an unconfirmed T1 is no tier below for a grant of T2 (nor does it show as held) until confirmed', async () => {
     const m = await person(c.clubId)
-    const { memberTierId } = await makeTier({ memberId: m.memberId, rank: 1, imported: true })
+    // Held long enough before the grant, by the import's dates.
+    const { memberTierId } = await makeTier({ memberId: m.memberId, rank: 1, firstGrantedOn: clubDay(-400), signedOn: clubDay(-30), imported: true })
     const before = await tierPost(c.instructor, m.memberId, '', { rank: 2 })
     expect(before.status).toBe(422)
     expect(codes(before.body)).toContain('TIER_BELOW_NOT_HELD')
