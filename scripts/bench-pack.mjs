@@ -57,7 +57,7 @@ async function seedPackWorld(client) {
     SELECT $1, e.id, e.held_on, $2, v.owner_membership_id, v.id, v.owner_membership_id,
       6 + (i % 4), 6 + (i % 4), 'bar', 0.5, i % 50 <> 0, 10, 'TIER',
       CASE WHEN i % 50 = 0 THEN '[{"code":"TIER_CAP_EXCEEDED","message":"Bench refusal"}]'::jsonb ELSE '[]'::jsonb END,
-      4000, 0.001, 2.5, e.held_on + interval '10 hours', (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = v.owner_membership_id AND t.first_granted_on <= e.held_on AND t.expires_on >= e.held_on AND t.revoked_at IS NULL)
+      4000, 0.001, 2.5, e.held_on + interval '10 hours', (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = v.owner_membership_id AND t.first_granted_on <= e.held_on AND t.expires_on >= e.held_on AND t.revoked_at IS NULL AND t.confirmed_at IS NOT NULL)
     FROM generate_series(1, $3::int) AS i
     JOIN bench_vessels v ON v.n = 1 + i % (SELECT count(*) FROM bench_vessels)
     JOIN bench_events e ON e.k = 1 + i % 12`, [clubId, stationId, FILLS])

@@ -43,7 +43,8 @@ export async function grantInitialTier(sequelize: Sequelize, input: { email: str
        VALUES (:clubId, :membershipId, :rank, :today, :today, :expiresOn, true)
        ON CONFLICT (membership_id, rank) DO UPDATE SET first_granted_on = EXCLUDED.first_granted_on, signed_on = EXCLUDED.signed_on,
          expires_on = EXCLUDED.expires_on, initial = true, suspended_at = NULL, suspension_reason = NULL, suspended_by_membership_id = NULL,
-         revoked_at = NULL, revocation_reason = NULL, revoked_by_membership_id = NULL, updated_at = now()
+         revoked_at = NULL, revocation_reason = NULL, revoked_by_membership_id = NULL,
+         confirmed_at = COALESCE(member_tiers.confirmed_at, now()), updated_at = now()
        RETURNING id`,
       { replacements: { clubId: club.id, membershipId: member.id, rank: TOP_TIER_RANK, today, expiresOn }, type: QueryTypes.SELECT, transaction })
     await sequelize.query(

@@ -5,7 +5,8 @@ export class User extends Model {
   declare id: string
   declare email: string
   declare name: string
-  declare passwordHash: string
+  /** Null for an imported account until its member sets a password from the welcome link: it cannot sign in. */
+  declare passwordHash: string | null
   declare emailVerifiedAt: Date | null
   declare createdAt: Date
   declare updatedAt: Date
@@ -15,7 +16,7 @@ export class User extends Model {
       id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
       email: { type: DataTypes.TEXT, allowNull: false },
       name: { type: DataTypes.TEXT, allowNull: false },
-      passwordHash: { type: DataTypes.TEXT, allowNull: false },
+      passwordHash: { type: DataTypes.TEXT, allowNull: true },
       emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
     }, { sequelize, modelName: 'user', tableName: 'users', underscored: true })
   }

@@ -15,6 +15,9 @@ export const FIELD_LABELS: Record<string, string> = {
   actions: 'Actions',
   // Pressure tiers
   rank: 'Tier',
+  confirmed: 'Confirmed (imported record)',
+  memberTierId: 'Held tier',
+  welcomesQueued: 'Welcome e-mails queued',
   tierState: 'Tier state',
   signedOn: 'Signed on',
   signoffId: 'Sign-off',

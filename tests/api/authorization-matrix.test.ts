@@ -63,6 +63,8 @@ const MATRIX: Record<string, Row> = {
   'POST /api/members/[id]/rejoin': only(400, 'admin'),
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
+  'GET /api/members/welcome': only(200, 'admin'), // members.manage: how many imported members wait for the welcome
+  'POST /api/members/welcome': only(400, 'admin'), // not confirmed: nothing is sent
   'GET /api/audit': only(200, 'safety', 'admin'),
   'POST /api/imports': only(400, 'admin'), // no multipart form
   'GET /api/imports/[id]': only(404, 'admin'), // [id] is a membership id here: no such import
@@ -120,6 +122,9 @@ const MATRIX: Record<string, Row> = {
   'POST /api/training/records/[id]/retraining': only(400, 'instructor', 'safety'), // training.flag
   'POST /api/training/evidence': only(400, 'instructor', 'safety'), // an empty multipart form
   'GET /api/training/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
+  'GET /api/training/imported': only(200, 'instructor', 'safety'), // training.run; the demo safety officer is an instructor
+  'POST /api/training/imported/[id]/confirm': only(400, 'instructor', 'safety'), // not confirmed: nothing changes
+  'POST /api/training/imported/[id]/reject': only(400, 'instructor', 'safety'), // no reason
   'GET /api/stations': signedIn(200),
   'POST /api/stations': only(400, 'safety', 'admin'), // stations.manage
   'PUT /api/stations/[id]': only(400, 'safety', 'admin'),
@@ -165,6 +170,9 @@ const MATRIX: Record<string, Row> = {
   'POST /api/members/[id]/tiers/[rank]/revoke': only(400, 'safety'),
   'POST /api/tiers/signoffs/[id]/evidence': only(400, 'instructor', 'safety'), // tiers.grant; an empty multipart form
   'GET /api/tiers/evidence/[id]': signedIn(404), // [id] is a membership id here: no such file
+  'GET /api/tiers/imported': only(200, 'instructor', 'safety'), // tiers.grant
+  'POST /api/tiers/imported/[id]/confirm': only(400, 'instructor', 'safety'), // not confirmed: nothing changes
+  'POST /api/tiers/imported/[id]/reject': only(400, 'instructor', 'safety'), // no reason
   'GET /api/fill-stations': only(200, 'instructor', 'safety', 'admin'), // staff and officers (members.read)
   'POST /api/fill-stations': only(400, 'safety', 'admin'), // events.manage
   'PUT /api/fill-stations/[id]': only(400, 'safety', 'admin'),

@@ -58,8 +58,8 @@ export interface MemberOverrides {
   noticeOptOuts?: string[]
   phone?: string | null
   unitPreference?: 'bar' | 'psi'
-  /** A stored hash (default: FACTORY_PASSWORD hashed with the server's parameters). */
-  passwordHash?: string
+  /** A stored hash (default: FACTORY_PASSWORD hashed with the server's parameters); null = no password (an imported account). */
+  passwordHash?: string | null
   /** Another database (a test with a server and database of its own); default the shared one. */
   db?: string
 }
@@ -167,7 +167,8 @@ async function updateRows(table: string, where: Where, values: object, db?: stri
 export interface UserOverrides {
   email?: string
   name?: string
-  passwordHash?: string
+  /** Null: no password (an imported account that has not set one yet). */
+  passwordHash?: string | null
   /** Default: confirmed now. */
   emailVerifiedAt?: When | null
   db?: string
@@ -179,7 +180,7 @@ export async function makeUser(o: UserOverrides = {}): Promise<{ userId: string,
   const email = o.email ?? `user-${tag}@test.hoopwise.example`
   const name = o.name ?? `Test User ${tag}`
   const userId = await insertRow('users', {
-    email, name, passwordHash: o.passwordHash ?? await passwordHash(),
+    email, name, passwordHash: o.passwordHash === null ? null : o.passwordHash ?? await passwordHash(),
     emailVerifiedAt: o.emailVerifiedAt === undefined ? NOW : o.emailVerifiedAt,
   }, o.db)
   return { userId, email, name, password: FACTORY_PASSWORD }
@@ -423,9 +424,10 @@ export async function makePhoto(o: { clubId?: string, uploadedBy: string, vessel
 /**
  * A training record of course `course` (its code, e.g. 'composite_ppe') for member `memberId`, trained
  * on `trainedOn` (default today), a pass unless given, expiring by the course's validity (the one rule,
- * trainingExpiresOn) unless `expiresOn` is given. The trainer and issuer are `trainerId`.
+ * trainingExpiresOn) unless `expiresOn` is given. The trainer and issuer are `trainerId`. `imported`:
+ * brought in by a roster import and not confirmed yet (every eligibility rule ignores it).
  */
-export async function makeTrainingRecord(o: { memberId: string, course: string, trainerId: string, trainedOn?: string, result?: 'pass' | 'fail', expiresOn?: string, takenElsewhere?: boolean, retrainingReason?: 'changed_workshop' | 'changed_ppe' | 'skill_not_retained', db?: string }): Promise<{ recordId: string, expiresOn: string }> {
+export async function makeTrainingRecord(o: { memberId: string, course: string, trainerId: string, trainedOn?: string, result?: 'pass' | 'fail', expiresOn?: string, takenElsewhere?: boolean, retrainingReason?: 'changed_workshop' | 'changed_ppe' | 'skill_not_retained', imported?: boolean, db?: string }): Promise<{ recordId: string, expiresOn: string }> {
   const [c] = await sql<{ id: string, club_id: string, name: string, validity_months: number, trainee: string, trainer: string }>(
     `SELECT c.id, c.club_id, c.name, c.validity_months, tu.name AS trainee, ru.name AS trainer
        FROM memberships m JOIN users tu ON tu.id = m.user_id JOIN courses c ON c.club_id = m.club_id AND c.code = $2
@@ -439,6 +441,7 @@ export async function makeTrainingRecord(o: { memberId: string, course: string, 
     trainedFrom: trainedOn, trainedTo: trainedOn, trainerName: c.trainer, trainerMembershipId: o.trainerId,
     issuedByMembershipId: o.trainerId, result: o.result ?? 'pass', expiresOn, takenElsewhere: o.takenElsewhere ?? false,
     ...(o.retrainingReason ? { retrainingRequiredAt: NOW, retrainingReason: o.retrainingReason, retrainingFlaggedByMembershipId: o.trainerId } : {}),
+    ...(o.imported ? { imported: true, confirmedAt: null } : {}),
   }, o.db)
   return { recordId, expiresOn }
 }
@@ -499,9 +502,10 @@ export async function makeBooking(o: { stationId: string, memberId: string, star
  * Member `memberId` holds tier `rank` (0–4), signed on `signedOn` (default today) and held since
  * `firstGrantedOn` (default the same day), expiring by the club's validity for the tier unless
  * `expiresOn` is given. With `assessorId` a grant sign-off is written too. `suspended`/`revoked`
- * mark it so, by `assessorId` (else the member's own id, which only a test would write).
+ * mark it so, by `assessorId` (else the member's own id, which only a test would write). `imported`:
+ * brought in by a roster import and not confirmed yet (every eligibility rule ignores it).
  */
-export async function makeTier(o: { memberId: string, rank: number, signedOn?: string, firstGrantedOn?: string, expiresOn?: string, assessorId?: string, initial?: boolean, suspended?: boolean, revoked?: boolean, db?: string }): Promise<{ memberTierId: string, expiresOn: string }> {
+export async function makeTier(o: { memberId: string, rank: number, signedOn?: string, firstGrantedOn?: string, expiresOn?: string, assessorId?: string, initial?: boolean, suspended?: boolean, revoked?: boolean, imported?: boolean, db?: string }): Promise<{ memberTierId: string, expiresOn: string }> {
   const [t] = await sql<{ club_id: string, validity_months: number }>(
     `SELECT m.club_id, l.validity_months FROM memberships m JOIN tier_levels l ON l.club_id = m.club_id AND l.rank = $2 WHERE m.id = $1`,
     [o.memberId, o.rank], o.db)
@@ -514,6 +518,7 @@ export async function makeTier(o: { memberId: string, rank: number, signedOn?: s
     initial: o.initial ?? false,
     ...(o.suspended ? { suspendedAt: NOW, suspensionReason: 'Suspended in a test', suspendedByMembershipId: by } : {}),
     ...(o.revoked ? { revokedAt: NOW, revocationReason: 'Revoked in a test', revokedByMembershipId: by } : {}),
+    ...(o.imported ? { imported: true, confirmedAt: null, importedAssessorName: 'Assessor Named In The Import' } : {}),
   }, o.db)
   if (o.assessorId || o.initial) {
     await insertRow('tier_signoffs', {
@@ -563,7 +568,7 @@ export async function makeLaunchEvent(o: { createdBy: string, heldOn?: string, s
  */
 export async function makeFill(o: { eventId: string, stationId: string, memberId: string, vesselId: string, recordedBy?: string, supervisorId?: string, pressureBar?: number, waterVolumeL?: number, reasons?: { code: string, message: string }[], tierRank?: number | null, db?: string }): Promise<{ fillId: string }> {
   const [e] = await sql<{ club_id: string, held_on: string, rank: number | null }>(
-    `SELECT e.club_id, e.held_on::text, (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = $2 AND t.first_granted_on <= e.held_on AND t.expires_on >= e.held_on AND t.revoked_at IS NULL) AS rank FROM launch_events e WHERE e.id = $1`,
+    `SELECT e.club_id, e.held_on::text, (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = $2 AND t.first_granted_on <= e.held_on AND t.expires_on >= e.held_on AND t.revoked_at IS NULL AND t.confirmed_at IS NOT NULL) AS rank FROM launch_events e WHERE e.id = $1`,
     [o.eventId, o.memberId], o.db)
   if (!e) throw new Error('makeFill: no such event')
   const pressureBar = o.pressureBar ?? 5

@@ -23,7 +23,7 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
     ALTER TABLE fills ADD COLUMN tier_rank integer CHECK (tier_rank BETWEEN 0 AND 9);
     ALTER TABLE fills DISABLE TRIGGER fills_no_update_delete;
     UPDATE fills f SET tier_rank = (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = f.membership_id
-      AND t.first_granted_on <= f.held_on AND t.expires_on >= f.held_on AND t.revoked_at IS NULL);
+      AND t.first_granted_on <= f.held_on AND t.expires_on >= f.held_on AND t.revoked_at IS NULL AND t.confirmed_at IS NOT NULL);
     ALTER TABLE fills ENABLE TRIGGER fills_no_update_delete;
 
     CREATE TABLE launch_event_tier_fills (

@@ -118,7 +118,7 @@ export async function seedEvents(ctx: SeedContext): Promise<void> {
            tnt_equivalent_kg, minimum_distance_m, created_at, tier_rank)
          VALUES (:clubId, :eventId, :heldOn, :stationId, :memberId, :vesselId, :recordedBy, :pressure, :pressure, 'bar', :water, :allowed,
            :permittedMaxBar, :limitingFactor, :reasons::jsonb, :energy, :tnt, :distance, (:heldOn::date + time '10:00' + :minutes * interval '1 minute') AT TIME ZONE 'Europe/London',
-           (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = :memberId AND t.first_granted_on <= :heldOn::date AND t.expires_on >= :heldOn::date AND t.revoked_at IS NULL))`,
+           (SELECT max(t.rank) FROM member_tiers t WHERE t.membership_id = :memberId AND t.first_granted_on <= :heldOn::date AND t.expires_on >= :heldOn::date AND t.revoked_at IS NULL AND t.confirmed_at IS NOT NULL))`,
         {
           heldOn, stationId: stationIds[f.station], memberId: member(f.member), vesselId: vessel.id, recordedBy: member(e.staff[0]!),
           pressure: f.pressureBar, water: f.waterL, allowed: f.reasons.length === 0, permittedMaxBar, limitingFactor,

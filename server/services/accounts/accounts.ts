@@ -26,15 +26,17 @@ let dummyHash: Promise<string> | undefined
  * spent against the limits BEFORE the slow hash check, so a burst of parallel guesses cannot outrun
  * them (429), and given back when the password is right; `knownDevice` (this browser signed in to
  * the account before) skips the account's own wait. 401 for any mismatch, the same whether or not
- * the e-mail has an account.
+ * the e-mail has an account or the account has no password yet (imported, welcome link not followed):
+ * both are checked against the dummy hash, so they cost the same time and count the same.
  */
 export async function signIn(email: string, password: string, address: string, knownDevice = false): Promise<SessionStart> {
   const account = email.toLowerCase()
   const attempt = await claimLoginAttempt(account, address, knownDevice)
   const user = await findUserByEmail(account)
   dummyHash ??= makePasswordHash('not-a-real-password-0000')
-  const ok = user ? await checkPassword(user.passwordHash, password) : (await checkPassword(await dummyHash, password), false)
-  if (ok && user) await upgradePasswordHash(user, password)
+  const hash = user?.passwordHash ?? null
+  const ok = hash ? await checkPassword(hash, password) : (await checkPassword(await dummyHash, password), false)
+  if (ok && user && hash) await upgradePasswordHash({ id: user.id, passwordHash: hash }, password)
   const session = ok && user ? await sessionFor(user) : null
   if (!session) {
     await loginFailed(attempt)
@@ -50,7 +52,7 @@ export async function signIn(email: string, password: string, address: string, k
  * hash it read: a password reset in between wins. A failure (say, the server too busy for one more
  * hash) is logged and leaves the old hash for the next sign-in; the sign-in goes on.
  */
-export async function upgradePasswordHash(user: Pick<User, 'id' | 'passwordHash'>, password: string): Promise<boolean> {
+export async function upgradePasswordHash(user: { id: string, passwordHash: string }, password: string): Promise<boolean> {
   if (!passwordNeedsNewHash(user.passwordHash)) return false
   try {
     const passwordHash = await makePasswordHash(password)

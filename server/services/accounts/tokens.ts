@@ -9,6 +9,12 @@ export const TOKEN_LIFETIME_HOURS: Record<TokenPurpose, number> = {
   guardian_consent: 14 * 24,
 }
 
+/**
+ * How long the welcome link of an imported account stays usable, in hours: a reset link by another
+ * name (purpose reset_password), but a member may take days to open the club's first e-mail.
+ */
+export const WELCOME_LINK_HOURS = 14 * 24
+
 /** A link lifetime in words for e-mails and messages: "1 hour", "48 hours", "14 days" (days only beyond two). */
 export function lifetimeWords(hours: number): string {
   if (hours > 48 && hours % 24 === 0) return `${hours / 24} days`
@@ -47,9 +53,12 @@ export function hashToken(token: string): string {
   return createHash('sha256').update(token).digest('hex')
 }
 
-/** Creates a one-time token for `purpose` (32 random bytes, base64url) and stores its hash. */
+/**
+ * Creates a one-time token for `purpose` (32 random bytes, base64url) and stores its hash; it lasts
+ * the purpose's lifetime unless `hours` says otherwise (the welcome link).
+ */
 export async function issueToken(
-  input: { userId: string, membershipId?: string | null, purpose: TokenPurpose },
+  input: { userId: string, membershipId?: string | null, purpose: TokenPurpose, hours?: number },
   transaction?: Transaction,
 ): Promise<IssuedToken> {
   const token = randomBytes(32).toString('base64url')
@@ -62,7 +71,7 @@ export async function issueToken(
       membershipId: input.membershipId ?? null,
       purpose: input.purpose,
       hash: hashToken(token),
-      hours: TOKEN_LIFETIME_HOURS[input.purpose],
+      hours: input.hours ?? TOKEN_LIFETIME_HOURS[input.purpose],
     },
     type: QueryTypes.SELECT,
     transaction,

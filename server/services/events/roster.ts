@@ -50,12 +50,12 @@ export async function eventRoster(actor: Actor, id: string, now = new Date()): P
                       WHERE a.membership_id = m.id AND w.version = (SELECT max(version) FROM waivers WHERE club_id = m.club_id)) AS waiver_current,
         tr.expires_on::text AS course_expires_on, tr.retraining_required_at IS NOT NULL AS course_retraining,
         (SELECT json_agg(json_build_object('rank', t.rank, 'expiresOn', t.expires_on::text, 'suspended', t.suspended_at IS NOT NULL, 'revoked', t.revoked_at IS NOT NULL))
-           FROM member_tiers t WHERE t.membership_id = m.id) AS tiers
+           FROM member_tiers t WHERE t.membership_id = m.id AND t.confirmed_at IS NOT NULL) AS tiers
       FROM launch_event_registrations r
       JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
       LEFT JOIN LATERAL (
         SELECT t.expires_on, t.retraining_required_at FROM training_records t JOIN courses c ON c.id = t.course_id
-         WHERE t.membership_id = m.id AND c.club_id = m.club_id AND c.code = :course AND t.result = 'pass'
+         WHERE t.membership_id = m.id AND c.club_id = m.club_id AND c.code = :course AND t.result = 'pass' AND t.confirmed_at IS NOT NULL
          ORDER BY t.trained_to DESC, t.created_at DESC LIMIT 1) tr ON true
      WHERE r.event_id = :id AND r.withdrawn_at IS NULL
      ORDER BY u.name, m.id`,

@@ -89,13 +89,13 @@ SELECT
   mem.id IS NOT NULL AS member_found, mem.status, mem.birth_date, mem.guardian_consent, mem.waiver_accepted,
   (SELECT json_agg(json_build_object('membership_id', t.membership_id, 'rank', t.rank, 'expires_on', t.expires_on::text,
             'suspended', t.suspended_at IS NOT NULL, 'revoked', t.revoked_at IS NOT NULL))
-     FROM member_tiers t WHERE t.membership_id IN (:memberId, :callerId) AND t.club_id = :clubId) AS held_tiers,
+     FROM member_tiers t WHERE t.membership_id IN (:memberId, :callerId) AND t.club_id = :clubId AND t.confirmed_at IS NOT NULL) AS held_tiers,
   (SELECT json_agg(json_build_object('rank', l.rank, 'fill_cap_bar', l.fill_cap_bar, 'required_course_codes', l.required_course_codes) ORDER BY l.rank)
      FROM tier_levels l WHERE l.club_id = :clubId) AS tiers,
   (SELECT json_agg(json_build_object('code', c.code, 'name', c.name, 'expires_on', r.expires_on::text, 'retraining', r.retraining_required_at IS NOT NULL))
      FROM courses c LEFT JOIN LATERAL (
        SELECT expires_on, retraining_required_at FROM training_records
-        WHERE membership_id = :memberId AND course_id = c.id AND result = 'pass'
+        WHERE membership_id = :memberId AND course_id = c.id AND result = 'pass' AND confirmed_at IS NOT NULL
         ORDER BY trained_to DESC, created_at DESC LIMIT 1) r ON true
     WHERE c.club_id = :clubId) AS courses,
   ves.owner_membership_id AS vessel_owner, ves.volume_l, ves.metal_in_pressure_path AS metal, ves.state AS vessel_state,

@@ -2,7 +2,7 @@
  * Every kind of e-mail Hoopwise sends, in one place: how it renders and whether a member may opt
  * out of it. Safety kinds are never optional. Each capability adds its own kinds here.
  */
-import { tokenLifetimeWords } from '../accounts'
+import { lifetimeWords, tokenLifetimeWords, WELCOME_LINK_HOURS } from '../accounts'
 import { JOINING_CAUTION, PRESSURE_CAUTION } from '#shared/utils/wording'
 import { COMPOSITE_CAUTION } from '#shared/utils/training-words'
 
@@ -86,6 +86,17 @@ export const NOTICE_KINDS = {
       `Hello ${v.memberName},`,
       `An administrator account for ${v.clubName} was created for you on Hoopwise. Choose your password with the link below; it works once and expires in ${tokenLifetimeWords('reset_password')}.`,
       'If it has expired, use "Forgot your password?" on the sign-in page to get a new one.',
+    ], { label: 'Choose my password', url: v.actionUrl }),
+  },
+  // An imported member's first e-mail: the admin chose to send it (one button, once per member).
+  welcome: {
+    optional: false,
+    label: 'Welcome (imported member)',
+    render: v => notice(`Welcome to ${v.clubName} on Hoopwise`, [
+      `Hello ${v.memberName},`,
+      `${v.clubName} now keeps its membership, training and pressure tiers on Hoopwise, and your details came across from the club's old records. Choose a password with the link below to sign in; it works once and expires in ${lifetimeWords(WELCOME_LINK_HOURS)}.`,
+      'Training records and tiers that came across count once an instructor or assessor of the club has confirmed them.',
+      'If the link has expired, use "Forgot your password?" on the sign-in page to get a new one.',
     ], { label: 'Choose my password', url: v.actionUrl }),
   },
   // Safety: tells the owner of the account at once when someone else used a reset link.

@@ -16,7 +16,7 @@ export function optOutSecret(): string {
  * clear) only while the notice may still be sent: once it is sent, skipped or has failed for good
  * the token is blanked (SCRUB_LINKS_SQL), so the database keeps no usable link.
  */
-export const ONE_TIME_LINK_KINDS = ['email_verification', 'password_reset', 'guardian_consent', 'set_password'] as const
+export const ONE_TIME_LINK_KINDS = ['email_verification', 'password_reset', 'guardian_consent', 'set_password', 'welcome'] as const
 
 const linkKinds = ONE_TIME_LINK_KINDS.map(kind => `'${kind}'`).join(', ')
 const scrubColumn = (column: string) =>

@@ -26,7 +26,7 @@ export async function tiersExpiringSoon(clubId: string, today: string): Promise<
     `SELECT t.id, t.membership_id, u.email, u.name, t.rank, l.name AS tier_name, t.expires_on::text AS expires_on
        FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
        JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-      WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND t.expires_on BETWEEN :today AND :until
+      WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND t.expires_on BETWEEN :today AND :until
         AND m.resigned_at IS NULL AND m.suspended_at IS NULL
       ORDER BY t.expires_on, t.id`,
     { replacements: { clubId, today, until: addCalendarDays(today, TIER_EXPIRY_NOTICE_DAYS[0]) }, type: QueryTypes.SELECT })

@@ -96,7 +96,7 @@ async function readPass(token: string, clubId?: string): Promise<ReadRow | FillP
             COALESCE((SELECT json_agg(json_build_object('rank', t.rank, 'name', l.name, 'expiresOn', t.expires_on::text,
                         'suspended', t.suspended_at IS NOT NULL, 'revoked', t.revoked_at IS NOT NULL) ORDER BY t.rank DESC)
                         FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
-                       WHERE t.membership_id = p.membership_id), '[]') AS tiers
+                       WHERE t.membership_id = p.membership_id AND t.confirmed_at IS NOT NULL), '[]') AS tiers
        FROM fill_passes p JOIN memberships m ON m.id = p.membership_id JOIN users u ON u.id = m.user_id
        JOIN clubs c ON c.id = p.club_id
       WHERE p.id = :passId AND (CAST(:clubId AS uuid) IS NULL OR p.club_id = CAST(:clubId AS uuid))`,

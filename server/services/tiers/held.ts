@@ -31,7 +31,7 @@ export function toHeldTier(r: HeldTierRow): HeldTier {
 
 /** Every tier member `membershipId` holds or held (any state), lowest rank first. */
 export async function heldTierRows(membershipId: string, transaction?: Transaction, db: Sequelize = useDb()): Promise<HeldTierRow[]> {
-  return db.query<HeldTierRow>(`SELECT ${HELD_COLUMNS} FROM member_tiers WHERE membership_id = :membershipId ORDER BY rank`,
+  return db.query<HeldTierRow>(`SELECT ${HELD_COLUMNS} FROM member_tiers WHERE membership_id = :membershipId AND confirmed_at IS NOT NULL ORDER BY rank`,
     { replacements: { membershipId }, type: QueryTypes.SELECT, transaction })
 }
 

@@ -13,7 +13,7 @@ import { loadTierLevel, loadTierTable } from './levels'
  * 422 unless `actor` may sign off tier `rank` for member `membershipId`: nobody signs their own
  * (SELF_SIGN_OFF); otherwise the role and the assessor's own valid tier decide (ASSESSOR_NOT_QUALIFIED).
  */
-async function requireQualifiedAssessor(actor: Actor, membershipId: string, rank: TierRank, today: string, transaction: Transaction): Promise<void> {
+export async function requireQualifiedAssessor(actor: Actor, membershipId: string, rank: TierRank, today: string, transaction: Transaction): Promise<void> {
   if (actor.membership.id === membershipId) refuse({ code: 'SELF_SIGN_OFF', message: 'Nobody signs off their own tier: another assessor does.' })
   const problem = assessorProblem({ membershipId: actor.membership.id, roles: actor.roles, validRank: await validRankOf(actor.membership.id, today, transaction) }, membershipId, rank)
   if (problem) refuse({ code: 'ASSESSOR_NOT_QUALIFIED', message: problem })
@@ -61,18 +61,21 @@ export async function grantTier(actor: Actor, membershipId: string, input: TierG
     if (gaps.length) refuse(gaps)
     const expiresOn = tierExpiresOn(signedOn, level.validityMonths)
     if (expiresOn < today) refuse({ code: 'SIGNED_ON_TOO_OLD', message: `A tier signed on ${signedOn} would have expired on ${expiresOn}: date the sign-off within its validity.` })
-    // A revoked tier starts afresh; an expired one keeps the day it was first granted.
+    // A revoked tier starts afresh; an expired one keeps the day it was first granted. An unconfirmed
+    // imported tier of that rank is replaced by this grant (which confirms it), from today's sign-off.
     const [row] = await useDb().query<{ id: string }>(
       `INSERT INTO member_tiers (club_id, membership_id, rank, first_granted_on, signed_on, expires_on)
        VALUES (:clubId, :membershipId, :rank, :signedOn, :signedOn, :expiresOn)
        ON CONFLICT (membership_id, rank) DO UPDATE SET
-         first_granted_on = CASE WHEN member_tiers.revoked_at IS NOT NULL THEN EXCLUDED.first_granted_on
+         first_granted_on = CASE WHEN member_tiers.revoked_at IS NOT NULL OR member_tiers.confirmed_at IS NULL THEN EXCLUDED.first_granted_on
                                  ELSE LEAST(member_tiers.first_granted_on, EXCLUDED.first_granted_on) END,
          signed_on = EXCLUDED.signed_on, expires_on = EXCLUDED.expires_on, initial = false,
          suspended_at = NULL, suspension_reason = NULL, suspended_by_membership_id = NULL,
-         revoked_at = NULL, revocation_reason = NULL, revoked_by_membership_id = NULL, updated_at = now()
+         revoked_at = NULL, revocation_reason = NULL, revoked_by_membership_id = NULL,
+         confirmed_by_membership_id = CASE WHEN member_tiers.confirmed_at IS NULL THEN :assessorId ELSE member_tiers.confirmed_by_membership_id END,
+         confirmed_at = COALESCE(member_tiers.confirmed_at, now()), updated_at = now()
        RETURNING id`,
-      { replacements: { clubId, membershipId, rank, signedOn, expiresOn }, type: QueryTypes.SELECT, transaction })
+      { replacements: { clubId, membershipId, rank, signedOn, expiresOn, assessorId: actor.membership.id }, type: QueryTypes.SELECT, transaction })
     const notes = input.notes ?? ''
     const id = await insertSignoff({ clubId, memberTierId: row!.id, membershipId, rank, kind: 'grant', signedOn, expiresOn, assessorId: actor.membership.id, notes }, transaction)
     await recordAudit(actor, clubId, {

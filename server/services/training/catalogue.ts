@@ -38,7 +38,7 @@ export async function myCourses(actor: Actor, now = new Date()): Promise<MyCours
        FROM courses c
        LEFT JOIN LATERAL (
          SELECT id, trained_to, expires_on, taken_elsewhere, retraining_reason, retraining_required_at FROM training_records
-          WHERE membership_id = :membershipId AND course_id = c.id AND result = 'pass'
+          WHERE membership_id = :membershipId AND course_id = c.id AND result = 'pass' AND confirmed_at IS NOT NULL
           ORDER BY trained_to DESC, created_at DESC LIMIT 1
        ) r ON true
       WHERE c.club_id = :clubId ORDER BY c.name`,
@@ -99,7 +99,7 @@ export async function courseRoster(clubId: string, timeZone: string, courseId: s
     `WITH latest AS (
        SELECT DISTINCT ON (r.membership_id) r.membership_id, r.trained_to, r.expires_on, r.retraining_required_at
          FROM training_records r
-        WHERE r.club_id = :clubId AND r.course_id = :courseId AND r.result = 'pass'
+        WHERE r.club_id = :clubId AND r.course_id = :courseId AND r.result = 'pass' AND r.confirmed_at IS NOT NULL
         ORDER BY r.membership_id, r.trained_to DESC, r.created_at DESC)
      SELECT l.membership_id, u.name, l.trained_to::text AS trained_to, l.expires_on::text AS expires_on, count(*) OVER () AS total
        FROM latest l JOIN memberships m ON m.id = l.membership_id JOIN users u ON u.id = m.user_id

@@ -28,7 +28,7 @@ export async function courseNeeds(clubId: string, membershipId: string, codes: r
        FROM courses c
        LEFT JOIN LATERAL (
          SELECT expires_on, retraining_required_at FROM training_records
-          WHERE membership_id = :membershipId AND course_id = c.id AND result = 'pass'
+          WHERE membership_id = :membershipId AND course_id = c.id AND result = 'pass' AND confirmed_at IS NOT NULL
           ORDER BY trained_to DESC, created_at DESC LIMIT 1
        ) r ON true
       WHERE c.club_id = :clubId AND c.code IN (:codes)`,

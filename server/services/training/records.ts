@@ -164,7 +164,7 @@ export async function trainingRecordsExpiringSoon(clubId: string, today: string)
   const rows = await useDb().query<{ id: string, membership_id: string, email: string, name: string, code: string, course_name: string, expires_on: string }>(
     `SELECT l.id, l.membership_id, u.email, u.name, c.code, c.name AS course_name, l.expires_on::text AS expires_on
        FROM (SELECT DISTINCT ON (r.membership_id, r.course_id) r.id, r.membership_id, r.course_id, r.expires_on, r.retraining_required_at
-               FROM training_records r WHERE r.club_id = :clubId AND r.result = 'pass'
+               FROM training_records r WHERE r.club_id = :clubId AND r.result = 'pass' AND r.confirmed_at IS NOT NULL
               ORDER BY r.membership_id, r.course_id, r.trained_to DESC, r.created_at DESC) l
        JOIN courses c ON c.id = l.course_id JOIN memberships m ON m.id = l.membership_id JOIN users u ON u.id = m.user_id
       WHERE l.retraining_required_at IS NULL AND l.expires_on BETWEEN :today AND :until

@@ -19,7 +19,7 @@ export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
   const [dated, fillRows] = await Promise.all([
     db.query<{ kind: 'tiers' | 'training' | 'fitTests' | 'proofs', due: string }>(
       `SELECT 'tiers' AS kind, t.expires_on::text AS due FROM member_tiers t JOIN memberships m ON m.id = t.membership_id
-        WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+        WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
           AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:until AS date)
        UNION ALL
        SELECT CASE WHEN t.course_code = 'respirator_fit' THEN 'fitTests' ELSE 'training' END, t.due_on FROM (${latestTrainingSql(null, ':until')}) t

@@ -43,9 +43,9 @@ export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
          u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on, c.code AS course_code
     FROM training_records r JOIN courses c ON c.id = r.course_id
     JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
-   WHERE r.club_id = :clubId AND r.result = 'pass' AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
+   WHERE r.club_id = :clubId AND r.result = 'pass' AND r.confirmed_at IS NOT NULL AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
      AND r.id = (SELECT n.id FROM training_records n WHERE n.membership_id = r.membership_id AND n.course_id = r.course_id AND n.result = 'pass'
-                  ORDER BY n.trained_to DESC, n.created_at DESC LIMIT 1)
+                  AND n.confirmed_at IS NOT NULL ORDER BY n.trained_to DESC, n.created_at DESC LIMIT 1)
      AND r.retraining_required_at IS NULL AND m.resigned_at IS NULL ${course}`
 }
 
@@ -84,7 +84,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            u.name AS search, NULL::text AS state, t.expires_on::text AS due_on
       FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
   'training-expiring': { kind: 'sql', sql: () => latestTrainingSql(false) },
   'fit-tests-expiring': { kind: 'sql', sql: () => latestTrainingSql(true) },
@@ -96,7 +96,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
       FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
   // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
   // are not now, when no tier as high is current: the fill gate will refuse them at that tier. The
@@ -111,11 +111,11 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
       JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
       CROSS JOIN LATERAL (SELECT f.created_at, f.held_on FROM fills f WHERE f.membership_id = t.membership_id AND f.allowed
                            ORDER BY f.created_at DESC LIMIT 1) lf
-     WHERE t.club_id = :clubId AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
        AND coalesce((SELECT max(c.rank) FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.id <> t.id
-                      AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date)), -1) < t.rank` },
+                      AND c.confirmed_at IS NOT NULL AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date)), -1) < t.rank` },
   'proofs': { kind: 'sql', sql: ctx => proofSql(ctx, ':d90') },
   'vessels-held': { kind: 'sql', sql: () => `
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,

@@ -102,11 +102,11 @@ export async function gatherEvidencePack(clubId: string, q: EvidencePackQuery, n
     // come along as JSON, so the tier and course rules are applied once, in shared code.
     select<MemberRow>(`SELECT u.name, ${statusCaseSql({ today: ':today', graceDays: ':graceDays' })} AS status, m.birth_date::text AS birth_date,
         (SELECT json_agg(json_build_object('rank', t.rank, 'expiresOn', t.expires_on, 'suspended', t.suspended_at IS NOT NULL,
-            'revoked', t.revoked_at IS NOT NULL)) FROM member_tiers t WHERE t.membership_id = m.id) AS tiers,
+            'revoked', t.revoked_at IS NOT NULL)) FROM member_tiers t WHERE t.membership_id = m.id AND t.confirmed_at IS NOT NULL) AS tiers,
         (SELECT json_agg(json_build_object('name', l.name, 'expiresOn', l.expires_on, 'retraining', l.retraining)) FROM (
            SELECT DISTINCT ON (r.course_id) c.name, r.expires_on, r.retraining_required_at IS NOT NULL AS retraining
              FROM training_records r JOIN courses c ON c.id = r.course_id
-            WHERE r.membership_id = m.id AND r.result = 'pass'
+            WHERE r.membership_id = m.id AND r.result = 'pass' AND r.confirmed_at IS NOT NULL
             ORDER BY r.course_id, r.trained_to DESC, r.created_at DESC) l) AS courses
       FROM memberships m JOIN users u ON u.id = m.user_id
       WHERE m.club_id = :clubId AND m.approved_at IS NOT NULL AND m.resigned_at IS NULL
