@@ -65,6 +65,8 @@ export const AUDIT_ACTIONS = [
   'incident.review',
   'incident.close',
   'incident.suspend_tier',
+  'member.erase',
+  'audit.personal_data_scrubbed',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -122,6 +124,8 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'incident.review': { label: 'Reviewed an incident', meaning: 'The safety officer changed an incident\'s review notes, findings or actions.' },
   'incident.close': { label: 'Closed an incident', meaning: 'The safety officer closed an incident with its outcome; a quarantined vessel stays quarantined until released.' },
   'incident.suspend_tier': { label: 'Suspended a tier over an incident', meaning: 'The safety officer suspended the pressure tier of a person involved, from the incident page.' },
+  'member.erase': { label: 'Erased a member on request', meaning: 'An admin erased a member who asked: their personal details were removed and their safety and payment records now carry a pseudonym.' },
+  'audit.personal_data_scrubbed': { label: 'Removed names from old audit events', meaning: 'An upgrade removed, once, the names and e-mails that audit events written before the trail named people by id still held.' },
 }
 
 /** Whether `action` is one the server records. */

@@ -60,6 +60,7 @@ const MATRIX: Record<string, Row> = {
   'POST /api/members/[id]/reinstate': only(400, 'admin'),
   'POST /api/members/[id]/resign': only(400, 'admin'),
   'POST /api/members/[id]/rejoin': only(400, 'admin'),
+  'POST /api/members/[id]/erase': only(400, 'admin'), // an empty body: no one is erased
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
   'GET /api/audit': only(200, 'safety', 'admin'),

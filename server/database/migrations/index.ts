@@ -19,6 +19,7 @@ import * as m0020 from './0020-tiers-and-fills'
 import * as m0021 from './0021-one-initial-tier'
 import * as m0022 from './0022-incidents'
 import * as m0023 from './0023-imported-records'
+import * as m0025 from './0025-erasures'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -41,4 +42,5 @@ export const migrations = [
   { name: '0021-one-initial-tier', ...m0021 },
   { name: '0022-incidents', ...m0022 },
   { name: '0023-imported-records', ...m0023 },
+  { name: '0025-erasures', ...m0025 },
 ]

@@ -33,7 +33,8 @@ export async function signIn(email: string, password: string, address: string, k
   const attempt = await claimLoginAttempt(account, address, knownDevice)
   const user = await findUserByEmail(account)
   dummyHash ??= makePasswordHash('not-a-real-password-0000')
-  const ok = user ? await checkPassword(user.passwordHash, password) : (await checkPassword(await dummyHash, password), false)
+  // An account without a password (an erased member's) is checked against the dummy, like no account.
+  const ok = user?.passwordHash ? await checkPassword(user.passwordHash, password) : (await checkPassword(await dummyHash, password), false)
   if (ok && user) await upgradePasswordHash(user, password)
   const session = ok && user ? await sessionFor(user) : null
   if (!session) {
