@@ -155,9 +155,9 @@ async function memberEverywhere() {
   await makeIncident({ reportedBy: m.memberId, kind: 'near_miss', whatHappened: `${name} saw the cap lift at 4 bar.` })
   await makeIncident({ reportedBy: safety.memberId, kind: 'burst', peopleIds: [m.memberId], whatHappened: `Bottle burst next to ${name.toUpperCase()}; call ${phone}.` })
   // Notices sent to them, and one to an officer that names them.
-  await makeNotice({ memberId: m.memberId, status: 'sent', subject: `Welcome, ${name}`, textBody: `Hello ${name} (${email}, ${phone})`, htmlBody: `<p>Hello ${name.replace('\'', '&#39;')}</p>` })
-  await makeNotice({ memberId: m.memberId, status: 'queued', toEmail: `guardian.${tag}@erase.test.hoopwise.example`, textBody: `Consent for ${name}` })
-  await makeNotice({ memberId: safety.memberId, status: 'sent', textBody: `${name} reported a near miss.` })
+  await makeNotice({ memberId: m.memberId, subjectKey: 'welcome', status: 'sent', subject: `Welcome, ${name}`, textBody: `Hello ${name} (${email}, ${phone})`, htmlBody: `<p>Hello ${name.replace('\'', '&#39;')}</p>` })
+  await makeNotice({ memberId: m.memberId, subjectKey: 'consent', status: 'queued', toEmail: `guardian.${tag}@erase.test.hoopwise.example`, textBody: `Consent for ${name}` })
+  await makeNotice({ memberId: safety.memberId, subjectKey: `near-miss-${tag}`, status: 'sent', textBody: `${name} reported a near miss.` })
   return { m, other, tag, name, email, phone, customerId, vessel }
 }
 
@@ -236,7 +236,7 @@ describe('reapplyErasures (what a restore runs)', () => {
     // A backup from before the erasure, restored: the old values are back in the account, membership, a notice and an incident.
     await sql('UPDATE users SET name = $2, email = $3, password_hash = $4 WHERE id = $1', [x.m.userId, x.name, x.email, 'scrypt$restored'])
     await setMembership(x.m.memberId, { phone: x.phone, birthDate: clubDay(-30 * 365), resignedAt: null })
-    await makeNotice({ memberId: x.m.memberId, status: 'sent', textBody: `Hello ${x.name}` })
+    await makeNotice({ memberId: x.m.memberId, subjectKey: 'restored', status: 'sent', textBody: `Hello ${x.name}` })
     await makeIncident({ reportedBy: x.m.memberId, whatHappened: `${x.name} again` })
     await makePhoto({ uploadedBy: x.m.memberId, vesselId: x.vessel.vesselId, purpose: 'build', caption: `By ${x.name}` })
     expect(await whereInDatabase(x.name)).not.toEqual([])
