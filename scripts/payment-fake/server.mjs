@@ -261,6 +261,12 @@ function authorised(req) {
   return key === config.secretKey
 }
 
+// Deleting a customer answers as the real service does: `{ id, object, deleted: true }`; 404 when unknown.
+function deleteCustomer(id, res) {
+  if (!store.customers.delete(id)) return apiError(res, 404, 'invalid_request_error', `No such customer: '${id}'`, { code: 'resource_missing', param: 'id' })
+  send(res, 200, { id, object: 'customer', deleted: true })
+}
+
 function retrieve(map, id, name, res, shape = o => o) {
   const found = map.get(id)
   if (!found) return apiError(res, 404, 'invalid_request_error', `No such ${name}: '${id}'`, { code: 'resource_missing', param: 'id' })
@@ -298,6 +304,7 @@ async function handle(req, res) {
   switch (route) {
     case 'POST /v1/customers': return send(res, 200, createCustomer(params))
     case 'GET /v1/customers/:id': return retrieve(store.customers, id, 'customer', res)
+    case 'DELETE /v1/customers/:id': return deleteCustomer(id, res)
     case 'POST /v1/checkout/sessions': return createSession(params, res)
     case 'GET /v1/checkout/sessions/:id': return retrieve(store.sessions, id, 'checkout.session', res, publicSession)
     case 'POST /v1/checkout/sessions/:id/expire': return expireSession(id, res)

@@ -72,6 +72,8 @@ export const AUDIT_ACTIONS = [
   'incident.suspend_tier',
   'member.imported',
   'club_data.import',
+  'member.erase',
+  'audit.personal_data_scrubbed',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -136,6 +138,8 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'member.imported': { label: 'Set roles or paid-through by import', meaning: 'A roster import gave a member roles or a paid-through date (roles are only ever added, paid-through only moved later).' },
   'club_data.import': { label: 'Imported a roster', meaning: 'An admin imported a roster file; the event counts the rows created, updated, unchanged and refused.' },
   'incident.suspend_tier': { label: 'Suspended a tier over an incident', meaning: 'The safety officer suspended the pressure tier of a person involved, from the incident page.' },
+  'member.erase': { label: 'Erased a member on request', meaning: 'An admin erased a member who asked: their personal details were removed and their safety and payment records now carry a pseudonym.' },
+  'audit.personal_data_scrubbed': { label: 'Removed names from old audit events', meaning: 'An upgrade removed, once, the names and e-mails that audit events written before the trail named people by id still held.' },
 }
 
 /** Whether `action` is one the server records. */

@@ -120,6 +120,11 @@ export const FIELD_LABELS: Record<string, string> = {
   stationIds: 'Fill stations',
   staffIds: 'Staff',
   cancelled: 'Cancelled',
+  // Erasure on request, and the one-time scrub of old audit events (their `changed` may name the e-mail)
+  email: 'E-mail',
+  paymentCustomersDeleted: 'Customer records deleted at the payment service',
+  personalUploads: 'Personal files removed',
+  rows: 'Audit events changed',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

@@ -61,6 +61,7 @@ const MATRIX: Record<string, Row> = {
   'POST /api/members/[id]/reinstate': only(400, 'admin'),
   'POST /api/members/[id]/resign': only(400, 'admin'),
   'POST /api/members/[id]/rejoin': only(400, 'admin'),
+  'POST /api/members/[id]/erase': only(400, 'admin'), // an empty body: no one is erased
   'PUT /api/members/[id]/roles': only(400, 'admin'),
   'POST /api/members/[id]/guardian-consent': only(400, 'admin'),
   'GET /api/members/welcome': only(200, 'admin'), // members.manage: how many imported members wait for the welcome

@@ -206,6 +206,8 @@ export interface MembershipState {
   phone?: string | null
   unitPreference?: 'bar' | 'psi'
   noticeOptOuts?: string[]
+  emergencyContactName?: string | null
+  emergencyContactPhone?: string | null
 }
 
 /** A membership's state: `setMembership(m.memberId, { suspendedAt: ago('1 day') })`; returns the ids changed. */
@@ -604,14 +606,33 @@ export async function makeFillPass(o: { memberId: string, issuedAt?: When, expir
  * An incident of `reportedBy`'s club (default a near miss an hour ago, open), linked to `vesselId`,
  * `eventId` and the members `peopleIds` when given; straight into the tables (no quarantine).
  */
-export async function makeIncident(o: { reportedBy: string, kind?: 'burst' | 'uncommanded_launch' | 'injury' | 'near_miss' | 'other', vesselId?: string, eventId?: string, peopleIds?: string[], injuryDetails?: string, closed?: boolean, happenedAt?: When, db?: string }): Promise<{ incidentId: string }> {
+export async function makeIncident(o: { reportedBy: string, kind?: 'burst' | 'uncommanded_launch' | 'injury' | 'near_miss' | 'other', vesselId?: string, eventId?: string, peopleIds?: string[], injuryDetails?: string, closed?: boolean, happenedAt?: When, whatHappened?: string, db?: string }): Promise<{ incidentId: string }> {
   const [m] = await sql<{ club_id: string }>('SELECT club_id FROM memberships WHERE id = $1', [o.reportedBy], o.db)
   const clubId = m!.club_id
   const incidentId = await insertRow('incidents', {
     clubId, reportedByMembershipId: o.reportedBy, kind: o.kind ?? 'near_miss', happenedAt: o.happenedAt ?? ago('1 hour'), place: 'North flat',
-    eventId: o.eventId ?? null, vesselId: o.vesselId ?? null, whatHappened: 'Made in a test', injuryDetails: o.injuryDetails ?? null,
+    eventId: o.eventId ?? null, vesselId: o.vesselId ?? null, whatHappened: o.whatHappened ?? 'Made in a test', injuryDetails: o.injuryDetails ?? null,
     ...(o.closed ? { status: 'closed', closedAt: NOW, closedByMembershipId: o.reportedBy } : {}),
   }, o.db)
   for (const id of o.peopleIds ?? []) await sql('INSERT INTO incident_people (incident_id, club_id, membership_id) VALUES ($1, $2, $3)', [incidentId, clubId, id], o.db)
   return { incidentId }
+}
+
+/**
+ * A paid card payment of `memberId` on their club's first plan, paid today, with the payment service's
+ * customer `customerId` when given (a customer of the payment fake, say); returns its id.
+ */
+export async function makePayment(o: { memberId: string, customerId?: string, reference?: string, db?: string }): Promise<{ paymentId: string }> {
+  const [p] = await sql<{ club_id: string, plan_id: string, name: string, price_minor: number, currency: string, period_months: number, receipt: number }>(
+    `WITH r AS (UPDATE clubs SET next_receipt_number = next_receipt_number + 1
+                 WHERE id = (SELECT club_id FROM memberships WHERE id = $1) RETURNING id, next_receipt_number - 1 AS receipt)
+     SELECT r.id AS club_id, d.id AS plan_id, d.name, d.price_minor, d.currency, d.period_months, r.receipt
+       FROM r JOIN dues_plans d ON d.club_id = r.id ORDER BY d.code LIMIT 1`, [o.memberId], o.db)
+  const paymentId = await insertRow('payments', {
+    clubId: p!.club_id, membershipId: o.memberId, planId: p!.plan_id, planName: p!.name, method: 'card', status: 'paid',
+    amountMinor: p!.price_minor, currency: p!.currency, periodMonths: p!.period_months, paidOn: clubDay(0),
+    paidThroughAfter: clubDay(365), receiptNumber: p!.receipt, reference: o.reference ?? null, providerCustomerId: o.customerId ?? null,
+    providerCheckoutId: `cs_test_${randomBytes(8).toString('hex')}`, providerPaymentIntentId: `pi_${randomBytes(8).toString('hex')}`,
+  }, o.db)
+  return { paymentId }
 }

@@ -20,6 +20,7 @@ import * as m0021 from './0021-one-initial-tier'
 import * as m0022 from './0022-incidents'
 import * as m0023 from './0023-imported-records'
 import * as m0024 from './0024-roster-imports'
+import * as m0025 from './0025-erasures'
 import * as m0027 from './0027-desk-tallies'
 
 export const migrations = [
@@ -44,5 +45,6 @@ export const migrations = [
   { name: '0022-incidents', ...m0022 },
   { name: '0023-imported-records', ...m0023 },
   { name: '0024-roster-imports', ...m0024 },
+  { name: '0025-erasures', ...m0025 },
   { name: '0027-desk-tallies', ...m0027 },
 ]

@@ -34,6 +34,7 @@ export async function signIn(email: string, password: string, address: string, k
   const attempt = await claimLoginAttempt(account, address, knownDevice)
   const user = await findUserByEmail(account)
   dummyHash ??= makePasswordHash('not-a-real-password-0000')
+  // An account without a password (imported, or an erased member's) is checked against the dummy, like no account.
   const hash = user?.passwordHash ?? null
   const ok = hash ? await checkPassword(hash, password) : (await checkPassword(await dummyHash, password), false)
   if (ok && user && hash) await upgradePasswordHash({ id: user.id, passwordHash: hash }, password)
