@@ -40,6 +40,9 @@ export interface EnqueueInput {
   vars: NoticeVars
 }
 
+/** What an imported account may be sent before the club's welcome: the welcome, and links it asks for. */
+const KINDS_BEFORE_WELCOME: NoticeKindName[] = ['welcome', 'password_reset', 'set_password', 'email_verification']
+
 /**
  * Queues one e-mail. The database's unique key (member, kind, subject, due date) makes this
  * idempotent: a second call — even a concurrent one — queues nothing and returns false.
@@ -51,9 +54,15 @@ export async function enqueueNotice(input: EnqueueInput, transaction?: Transacti
   const link = optional ? optOutUrl(optOutSecret(), input.vars.baseUrl, input.membershipId, input.kind) : undefined
   const composed = composeNotice(input.kind, input.vars, link)
   // ON CONFLICT DO NOTHING: a concurrent run that queues the same notice simply gets nothing back.
+  // An imported account (no password yet) gets nothing before its welcome but what it asks for
+  // itself: the admin chooses when the club first writes to its imported members.
   const rows = await useDb().query<{ id: string }>(`
     INSERT INTO notices (club_id, membership_id, kind, subject_key, due_on, to_email, subject, text_body, html_body)
-    VALUES (:clubId, :membershipId, :kind, :subjectKey, :dueOn, :toEmail, :subject, :textBody, :htmlBody)
+    SELECT :clubId, :membershipId, :kind, :subjectKey, :dueOn, :toEmail, :subject, :textBody, :htmlBody
+     WHERE :kind IN (:beforeWelcome) OR NOT EXISTS (
+       SELECT 1 FROM memberships m JOIN users u ON u.id = m.user_id
+        WHERE m.id = :membershipId AND u.password_hash IS NULL
+          AND NOT EXISTS (SELECT 1 FROM notices w WHERE w.membership_id = m.id AND w.kind = 'welcome'))
     ON CONFLICT (membership_id, kind, subject_key, due_on) DO NOTHING
     RETURNING id`, {
     replacements: {
@@ -66,6 +75,7 @@ export async function enqueueNotice(input: EnqueueInput, transaction?: Transacti
       subject: composed.subject,
       textBody: composed.text,
       htmlBody: composed.html,
+      beforeWelcome: KINDS_BEFORE_WELCOME,
     },
     type: QueryTypes.SELECT,
     transaction,
