@@ -117,8 +117,13 @@ function restoreSteps({ folder, replace, ownerUrl, appUrl, uploadsDir, pgBin }) 
           const what = [rows && `the database holds ${rows} rows`, uploadsUsed && `the uploads folder ${uploadsDir} holds files`].filter(Boolean).join(' and ')
           throw new BackupError(`Refused: ${what}. A restore goes into an empty database; add --replace to delete what is there (back it up first).`)
         }
-        // A migrated database without rows counts as empty; its tables go too.
+        // A migrated database without rows counts as empty; its tables go too. Its erasure list is kept
+        // first: a backup older than an erasure must not bring that member back.
         if (tables) {
+          const listed = await client.query(`SELECT to_regclass('public.erasures') IS NOT NULL AS present`)
+          ctx.priorErasures = listed.rows[0].present
+            ? (await client.query('SELECT membership_id AS "membershipId", user_id AS "userId", club_id AS "clubId" FROM erasures')).rows
+            : []
           await client.query('DROP SCHEMA public CASCADE')
           await client.query('CREATE SCHEMA public')
           // As a new database's public schema: every role may use it, none may create in it.
@@ -155,7 +160,16 @@ function restoreSteps({ folder, replace, ownerUrl, appUrl, uploadsDir, pgBin }) 
       name: 'restore the uploads',
       run: () => extractUploads(folder, uploadsDir),
     },
-    // Last, once the rows and the files are back: the erasure list, so a backup brings no erased member back.
+    {
+      // Last, once the rows and the files are back: the backup's erasure list and the replaced
+      // database's, so a backup brings no erased member back.
+      name: 're-apply the erasure list',
+      run: async (ctx) => {
+        const { reapplyErasures } = await jiti.import('../server/database/erasures.ts')
+        const again = await reapplyErasures(ctx.sequelize, { entries: ctx.priorErasures ?? [], uploadsDir })
+        if (again) console.log(`  ${again} erased member(s) the backup held were erased again`)
+      },
+    },
   ]
 }
 

@@ -154,6 +154,11 @@ async function memberEverywhere() {
   // Incidents: one they reported, one another reported that involves them and names them.
   await makeIncident({ reportedBy: m.memberId, kind: 'near_miss', whatHappened: `${name} saw the cap lift at 4 bar.` })
   await makeIncident({ reportedBy: safety.memberId, kind: 'burst', peopleIds: [m.memberId], whatHappened: `Bottle burst next to ${name.toUpperCase()}; call ${phone}.` })
+  // A roster import waiting with a staging row for them (the file names them too).
+  const [job] = await sql<{ id: string }>(`INSERT INTO import_jobs (club_id, created_by_membership_id, file_bytes, delimiter, headings, preview)
+    SELECT club_id, $1, 10, ',', '["name","email"]', '[]' FROM memberships WHERE id = $1 RETURNING id`, [safety.memberId])
+  await sql(`INSERT INTO import_rows (job_id, line, cells, email, outcome, row_values) VALUES ($1, 2, $2, $3, 'update', '{}')`,
+    [job!.id, JSON.stringify([name, email, phone]), email])
   // Notices sent to them, and one to an officer that names them.
   await makeNotice({ memberId: m.memberId, subjectKey: 'welcome', status: 'sent', subject: `Welcome, ${name}`, textBody: `Hello ${name} (${email}, ${phone})`, htmlBody: `<p>Hello ${name.replace('\'', '&#39;')}</p>` })
   await makeNotice({ memberId: m.memberId, subjectKey: 'consent', status: 'queued', toEmail: `guardian.${tag}@erase.test.hoopwise.example`, textBody: `Consent for ${name}` })
@@ -167,7 +172,7 @@ describe('POST /api/members/[id]/erase', () => {
     const identifying = [x.name, x.email, x.phone, `Bram Farrow ${x.tag}`, `guardian.${x.tag}@erase.test.hoopwise.example`]
     // The search finds them everywhere before, so it would find a leftover after.
     expect(await whereInDatabase(x.name)).toEqual(expect.arrayContaining(['users.name', 'incidents.what_happened', 'notices.text_body', 'training_records.trainee_name', 'vessels.name', 'photos.caption', 'waiver_acceptances.typed_name']))
-    expect(await whereInDatabase(x.email)).toEqual(expect.arrayContaining(['users.email', 'rate_limits.key', 'notices.text_body']))
+    expect(await whereInDatabase(x.email)).toEqual(expect.arrayContaining(['users.email', 'rate_limits.key', 'notices.text_body', 'import_rows.email', 'import_rows.cells']))
     expect(await whereInDatabase(x.phone)).toEqual(expect.arrayContaining(['memberships.phone', 'bookings.note']))
     expect(whereInUploads(x.name).length).toBe(1)
     const before = await safetyCounts(x.m.memberId)
