@@ -182,6 +182,24 @@ describe('npm run restore', { timeout: 180_000 }, () => {
     const [row] = await sql<{ reason: string }>('SELECT reason FROM audit_events WHERE id = $1', [auditEntryId], restored.owner)
     expect(row?.reason).toBe('Kept for the backup test')
   })
+
+  it('erases again a member the replaced database had erased after the backup was taken', async () => {
+    await server?.stop()
+    server = undefined
+    // The instructor was erased after the backup: the database being replaced lists them.
+    const [who] = await sql<{ id: string, user_id: string, club_id: string }>(
+      'SELECT m.id, m.user_id, m.club_id FROM memberships m JOIN users u ON u.id = m.user_id WHERE u.email = $1', [DEMO.instructor], restored.owner)
+    await sql('INSERT INTO erasures (membership_id, user_id, club_id) VALUES ($1, $2, $3)', [who!.id, who!.user_id, who!.club_id], restored.owner)
+    const run = await command('restore', [folder, '--replace'], restored)
+    expect(run.stderr).toBe('')
+    expect(run.code).toBe(0)
+    expect(run.stdout).toMatch(/1 erased member\(s\) the backup held were erased again/)
+    const [user] = await sql<{ name: string, email: string, password_hash: string | null }>('SELECT name, email, password_hash FROM users WHERE id = $1', [who!.user_id], restored.owner)
+    expect(user).toEqual({ name: expect.stringMatching(/^Erased member /), email: expect.stringMatching(/@erased\.invalid$/), password_hash: null })
+    expect(await sql('SELECT 1 FROM erasures WHERE membership_id = $1', [who!.id], restored.owner)).toHaveLength(1)
+    // The demo member, never erased, is as the backup holds them.
+    expect(await sql('SELECT 1 FROM users WHERE email = $1', [DEMO.member], restored.owner)).toHaveLength(1)
+  })
 })
 
 describe('the PostgreSQL client\'s version', () => {
