@@ -70,7 +70,7 @@ export const ERASURE_STEPS: ErasureStep[] = [
   // A roster import's staging rows have no club column of their own: the rows naming the member go.
   { name: 'import staging rows', run: (db, t, tx) => q(db, `DELETE FROM import_rows r USING import_jobs j WHERE j.id = r.job_id AND j.club_id = :clubId
       AND (lower(r.email) IN (:emails) OR EXISTS (SELECT 1 FROM unnest(ARRAY[:needles]::text[]) n WHERE strpos(lower(r.cells::text), lower(n)) > 0))`,
-    t, tx, { emails: t.emails.length ? t.emails : [''] }).then(() => undefined) },
+  t, tx, { emails: t.emails.length ? t.emails : [''] }).then(() => undefined) },
   { name: 'personal files', run: personalFiles },
   { name: 'payment events', run: paymentEvents },
   { name: 'free text', run: freeText },
