@@ -111,6 +111,21 @@ describe('who sees a report', () => {
   })
 })
 
+describe('the incidents naming one member', () => {
+  it('lists for an officer only the incidents naming the person, and for a member still only their own reports', async () => {
+    const involved = await person(c.clubId)
+    const reporter = await person(c.clubId)
+    const { body: naming } = await report(reporter, { peopleIds: [involved.memberId] })
+    const { body: other } = await report(reporter, {})
+    const { body: byOfficer } = await report(c.safety, { peopleIds: [involved.memberId] })
+    const list = async (who: Person, query: Record<string, string>) => (await api<Paged<IncidentListItemDto>>('/api/incidents', { as: who.cookie, query: { pageSize: '100', ...query } })).body.items.map(i => i.id)
+    expect((await list(c.safety, { person: involved.memberId })).sort()).toEqual([naming.id, byOfficer.id].sort())
+    expect(await list(c.safety, {})).toEqual(expect.arrayContaining([naming.id, other.id, byOfficer.id]))
+    expect(await list(reporter, { person: involved.memberId })).toEqual([naming.id])
+    expect(await list(involved, { person: involved.memberId })).toEqual([])
+  })
+})
+
 describe('the safety officer\'s review', () => {
   it('reviews, suspends the tier of a person involved, closes — and the vessel stays quarantined until released', async () => {
     const involved = await person(c.clubId)
@@ -156,7 +171,9 @@ describe('the safety officer\'s review', () => {
     const again = await api(`/api/vessels/${vesselId}/release`, { method: 'POST', as: c.safety.cookie, body: { reason: 'Twice' } })
     expect(codes(again.body)).toEqual(['NOT_QUARANTINED'])
     // A leaking proof test leaves it awaiting proof; only a passing one returns it to service.
-    const proof = (result: string) => api(`/api/vessels/${vesselId}/proof-tests`, { method: 'POST', as: c.instructor.cookie, body: { pressure: 16, unit: 'bar', result } })
+    const proof = (result: string) => api(`/api/vessels/${vesselId}/proof-tests`, {
+      method: 'POST', as: c.instructor.cookie, body: { pressure: 16, unit: 'bar', result, ...(result === 'pass' ? {} : { failureLocation: 'end_fitting' }) },
+    })
     expect((await proof('leak')).status).toBe(201)
     expect(await vesselState(vesselId)).toBe('awaiting_proof')
     expect((await proof('pass')).status).toBe(201)
