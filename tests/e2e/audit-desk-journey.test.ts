@@ -175,8 +175,21 @@ describe('the safety officer\'s journey from the audit desk', () => {
       await page.getByTestId('suspend-confirm').waitFor()
       const [tierBefore] = await sql<{ suspended_at: Date | null }>('SELECT suspended_at FROM member_tiers WHERE membership_id = $1 AND rank = 2', [member.memberId])
       expect(tierBefore!.suspended_at).toBeNull()
+      expect(await page.getByTestId('suspend-confirm').textContent()).toContain(`Suspend T2 of ${member.name}?`)
       await page.getByTestId('suspend-send').click()
-      await expect.poll(() => page.getByTestId('incident-suspend').textContent()).toContain('Tier suspended')
+      await expect.poll(() => page.getByTestId('incident-suspend').textContent()).toContain(`T2 of ${member.name} suspended.`)
+
+      // The review is saved, and closing (asked first) leaves the vessel quarantined.
+      await page.getByTestId('review-findings').fill('Filled past the tier\'s cap.')
+      await page.getByTestId('review-save').click()
+      await expect.poll(() => page.getByTestId('incident-review').textContent()).toContain('Review saved.')
+      await page.getByTestId('close-outcome').fill('Tier suspended until retrained')
+      await page.getByTestId('close-send').click()
+      await page.getByTestId('close-confirm').waitFor()
+      await page.getByTestId('close-send').click()
+      await page.getByTestId('incident-closed').waitFor()
+      expect(await page.getByTestId('incident-status').textContent()).toContain('Closed')
+      expect(await page.getByTestId('incident-vessel').textContent()).toContain('Quarantined')
     }
     finally {
       await page.close()
