@@ -56,10 +56,22 @@ export const IncidentSuspensionSchema = z.object({
 }).strict()
 export type IncidentSuspensionInput = z.infer<typeof IncidentSuspensionSchema>
 
-/** The incident list, newest first, server-paged, optionally one status. */
+/** The incident list, newest first, server-paged, optionally one status and one person involved. */
 export const IncidentListQuerySchema = z.object({
   status: z.enum(INCIDENT_STATUSES).optional().catch(undefined),
+  person: z.string().uuid().transform(id => id.toLowerCase()).optional().catch(undefined),
   page: z.coerce.number().int().min(1).max(100_000).default(1).catch(1),
   pageSize: z.coerce.number().int().min(1).max(100).default(25).catch(25),
 })
 export type IncidentListQuery = z.infer<typeof IncidentListQuerySchema>
+
+/** The shortest name part the report form searches for (fewer letters would list half the club). */
+export const INCIDENT_PEOPLE_QUERY_MIN = 2
+
+/** The report form's search for the people involved: part of a member's name. */
+export const IncidentPeopleQuerySchema = z.object({
+  q: z.string({ required_error: 'Type part of a name', invalid_type_error: 'Type part of a name' }).trim()
+    .min(INCIDENT_PEOPLE_QUERY_MIN, `Type at least ${INCIDENT_PEOPLE_QUERY_MIN} letters of the name`).max(80, 'At most 80 characters')
+    .refine(v => !/[\p{Cc}\p{Cf}]/u.test(v), 'Use visible characters only'),
+})
+export type IncidentPeopleQuery = z.infer<typeof IncidentPeopleQuerySchema>

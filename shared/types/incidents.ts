@@ -1,4 +1,5 @@
 import type { IncidentKind, IncidentStatus } from '../utils/incident-words'
+import type { VesselState } from '../utils/vessel-states'
 
 /** A person named on an incident report. */
 export interface IncidentPersonDto {
@@ -37,4 +38,17 @@ export interface IncidentDto extends IncidentListItemDto {
   /** What the reader may do: review, close, suspend tiers (the safety officer, while open). */
   canReview: boolean
   createdAt: string
+}
+
+/** A member the report form offers as a person involved: the id and the name, nothing else. */
+export interface IncidentPersonChoiceDto {
+  membershipId: string
+  name: string
+}
+
+/** A vessel as the report form shows it, for any vessel of the club: what to check it is the right one. */
+export interface IncidentVesselDto {
+  tag: string
+  name: string
+  state: VesselState
 }

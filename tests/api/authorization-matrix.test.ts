@@ -198,6 +198,8 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/incidents/[id]/review': only(400, 'safety'), // incidents.review
   'POST /api/incidents/[id]/close': only(400, 'safety'),
   'POST /api/incidents/[id]/suspensions': only(400, 'safety'), // incidents.review and tiers.suspend
+  'GET /api/incidents/people': signedIn(400), // the report form's name search; no name part given
+  'GET /api/incidents/vessels/[tag]': signedIn(404), // any vessel of the club for the report form; a tag no club has given
 }
 
 let subjectId = ''

@@ -34,14 +34,16 @@ const listItem = (r: ListRow): IncidentListItemDto => ({
 
 /**
  * The incidents `actor` may see, newest first, one page: officers (incidents.review, audit.read) see
- * every report of the club, anyone else their own reports only.
+ * every report of the club, anyone else their own reports only; optionally only those of one status
+ * or naming one person as involved (the member page's link).
  */
 export async function listIncidents(actor: Actor, q: IncidentListQuery): Promise<Paged<IncidentListItemDto>> {
   const access = incidentAccess(actor)
   const where = ['i.club_id = :clubId']
   if (!access.all) where.push('i.reported_by_membership_id = :me')
   if (q.status) where.push('i.status = :status')
-  const replacements = { clubId: actor.club.id, me: actor.membership.id, status: q.status ?? null, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
+  if (q.person) where.push('EXISTS (SELECT 1 FROM incident_people p WHERE p.incident_id = i.id AND p.membership_id = :person)')
+  const replacements = { clubId: actor.club.id, me: actor.membership.id, status: q.status ?? null, person: q.person ?? null, limit: q.pageSize, offset: (q.page - 1) * q.pageSize }
   const rows = await useDb().query<ListRow & { total: number }>(
     `SELECT ${LIST_COLUMNS}, count(*) OVER ()::int AS total ${LIST_FROM} WHERE ${where.join(' AND ')}
       ORDER BY i.happened_at DESC, i.id LIMIT :limit OFFSET :offset`,

@@ -8,6 +8,7 @@ import type { IncidentReportInput } from '#shared/schemas/incidents'
 import type { IncidentDto } from '#shared/types/incidents'
 import { INCIDENT_KIND_WORDS } from '#shared/utils/incident-words'
 import { dateInZone } from '#shared/utils/dates'
+import { INVOLVED_MEMBER_SQL } from './lookups'
 import { queueIncidentReported } from './notices'
 import { incidentOr404 } from './read'
 
@@ -15,8 +16,9 @@ import { incidentOr404 } from './read'
 const CLOCK_SLACK_MS = 5 * 60_000
 
 /**
- * Any signed-in member reports an incident. The people involved must be members of the club, the
- * event one of its launch events, the vessel (by tag) any vessel of the club. In ONE transaction: the
+ * Any signed-in member reports an incident. The people involved must be members of the club (approved,
+ * not resigned: whom the form offers), the event one of its launch events, the vessel (by tag) any
+ * vessel of the club. In ONE transaction: the
  * report and its people are written, the vessel is quarantined (it stays so whatever becomes of the
  * report, until the safety officer releases it), both are audited and every safety officer's e-mail is
  * queued. Answers the report as the reporter sees it.
@@ -28,7 +30,7 @@ export async function reportIncident(actor: Actor, input: IncidentReportInput): 
   const id = await inTransaction(async (transaction) => {
     const reasons: Reason[] = []
     const found = input.peopleIds.length
-      ? await useDb().query<{ id: string }>('SELECT id FROM memberships WHERE club_id = :clubId AND id IN (:ids)',
+      ? await useDb().query<{ id: string }>(`SELECT m.id FROM memberships m WHERE m.club_id = :clubId AND m.id IN (:ids) AND ${INVOLVED_MEMBER_SQL}`,
           { replacements: { clubId, ids: input.peopleIds }, type: QueryTypes.SELECT, transaction })
       : []
     if (found.length !== input.peopleIds.length) reasons.push({ code: 'PERSON_NOT_IN_CLUB', message: 'Everyone named as involved must be a member of the club.' })

@@ -4,7 +4,7 @@ import { api } from '../../support/http'
 import { sql } from '../../support/db'
 import { clubDay, makeTier, makeVessel } from '../../support/factories'
 import { codes, logFills, person, tierClub, tierPost, type Person, type TierClub } from '../tiers/support'
-import type { IncidentDto, IncidentListItemDto } from '../../../shared/types/incidents'
+import type { IncidentDto, IncidentListItemDto, IncidentPersonChoiceDto, IncidentVesselDto } from '../../../shared/types/incidents'
 import type { Paged } from '../../../shared/types/common'
 
 // Each test works in a club of its own making (the tier files' club): its safety officers are known,
@@ -111,6 +111,21 @@ describe('who sees a report', () => {
   })
 })
 
+describe('the incidents naming one member', () => {
+  it('lists for an officer only the incidents naming the person, and for a member still only their own reports', async () => {
+    const involved = await person(c.clubId)
+    const reporter = await person(c.clubId)
+    const { body: naming } = await report(reporter, { peopleIds: [involved.memberId] })
+    const { body: other } = await report(reporter, {})
+    const { body: byOfficer } = await report(c.safety, { peopleIds: [involved.memberId] })
+    const list = async (who: Person, query: Record<string, string>) => (await api<Paged<IncidentListItemDto>>('/api/incidents', { as: who.cookie, query: { pageSize: '100', ...query } })).body.items.map(i => i.id)
+    expect((await list(c.safety, { person: involved.memberId })).sort()).toEqual([naming.id, byOfficer.id].sort())
+    expect(await list(c.safety, {})).toEqual(expect.arrayContaining([naming.id, other.id, byOfficer.id]))
+    expect(await list(reporter, { person: involved.memberId })).toEqual([naming.id])
+    expect(await list(involved, { person: involved.memberId })).toEqual([])
+  })
+})
+
 describe('the safety officer\'s review', () => {
   it('reviews, suspends the tier of a person involved, closes — and the vessel stays quarantined until released', async () => {
     const involved = await person(c.clubId)
@@ -152,6 +167,18 @@ describe('the safety officer\'s review', () => {
     const released = await api(`/api/vessels/${vesselId}/release`, { method: 'POST', as: c.safety.cookie, body: { reason: 'Reviewed after the incident' } })
     expect(released.status).toBe(200)
     expect(await vesselState(vesselId)).toBe('awaiting_proof')
+    // Released once: a release is only from quarantine.
+    const again = await api(`/api/vessels/${vesselId}/release`, { method: 'POST', as: c.safety.cookie, body: { reason: 'Twice' } })
+    expect(codes(again.body)).toEqual(['NOT_QUARANTINED'])
+    // A leaking proof test leaves it awaiting proof; only a passing one returns it to service.
+    const proof = (result: string) => api(`/api/vessels/${vesselId}/proof-tests`, {
+      method: 'POST', as: c.instructor.cookie, body: { pressure: 16, unit: 'bar', result, ...(result === 'pass' ? {} : { failureLocation: 'end_fitting' }) },
+    })
+    expect((await proof('leak')).status).toBe(201)
+    expect(await vesselState(vesselId)).toBe('awaiting_proof')
+    expect((await proof('pass')).status).toBe(201)
+    expect(await vesselState(vesselId)).toBe('in_service')
+    expect(await auditActions(vesselId)).toEqual(expect.arrayContaining(['vessel.quarantine', 'vessel.release']))
   })
 })
 
@@ -166,5 +193,54 @@ describe('open incidents and tier renewal', () => {
     expect(codes(refused.body)).toEqual(['OPEN_INCIDENT'])
     expect((await api(`/api/incidents/${incident.id}/close`, { method: 'POST', as: c.safety.cookie, body: { outcome: 'Nothing to answer' } })).status).toBe(200)
     expect((await tierPost(c.instructor, m.memberId, '/1/renewal', {})).status).toBe(201)
+  })
+})
+
+describe('the report form\'s look-ups', () => {
+  it('finds members by part of the name for any member — ids and names only, current members of the club only', async () => {
+    const stamp = `Quillon${Date.now().toString(36)}`
+    const asker = await person(c.clubId)
+    const [named, lapsed, suspended] = await Promise.all([
+      person(c.clubId, [], { name: `Ada ${stamp}` }),
+      person(c.clubId, [], { name: `Bea ${stamp}`, paidDays: -400 }),
+      person(c.clubId, [], { name: `Cy ${stamp}`, suspendedReason: 'Unpaid' }),
+    ])
+    await person(c.clubId, [], { name: `Dee ${stamp}`, resigned: true })
+    await person(c.clubId, [], { name: `Eve ${stamp}`, approved: false })
+    await person((await tierClub()).clubId, [], { name: `Fay ${stamp}` })
+    const res = await api<{ items: IncidentPersonChoiceDto[] }>('/api/incidents/people', { as: asker.cookie, query: { q: stamp.toLowerCase() } })
+    expect(res.status).toBe(200)
+    // Whoever is still a member, whatever their dues or a suspension (leaving those out would tell who is suspended).
+    expect(res.body.items).toEqual([named, lapsed, suspended].map(p => ({ membershipId: p.memberId, name: p.name })))
+    // Not a way round the directory: a part of an e-mail finds nobody, and wildcards are taken literally.
+    expect((await api<{ items: unknown[] }>('/api/incidents/people', { as: asker.cookie, query: { q: named.email.split('@')[0]! } })).body.items).toEqual([])
+    expect((await api<{ items: unknown[] }>('/api/incidents/people', { as: asker.cookie, query: { q: '%%' } })).body.items).toEqual([])
+    expect((await api('/api/incidents/people', { as: asker.cookie, query: { q: 'a' } })).status).toBe(400)
+    expect((await api('/api/incidents/people', { query: { q: stamp } })).status).toBe(401)
+  })
+
+  it('refuses a report naming a resigned or unapproved member, as the search offers neither', async () => {
+    const reporter = await person(c.clubId)
+    const resigned = await person(c.clubId, [], { resigned: true })
+    const unapproved = await person(c.clubId, [], { approved: false })
+    for (const p of [resigned, unapproved]) expect(codes((await report(reporter, { peopleIds: [p.memberId] })).body)).toEqual(['PERSON_NOT_IN_CLUB'])
+    const suspended = await person(c.clubId, [], { suspendedReason: 'Unpaid' })
+    expect((await report(reporter, { peopleIds: [suspended.memberId] })).status).toBe(201)
+  })
+
+  it('looks up any vessel of the club by its tag for any member — tag, name and state only', async () => {
+    const owner = await person(c.clubId)
+    const asker = await person(c.clubId)
+    const { tag } = await makeVessel({ ownerId: owner.memberId, state: 'in_service', name: 'Grey Heron' })
+    const res = await api<IncidentVesselDto>(`/api/incidents/vessels/${tag.toLowerCase()}`, { as: asker.cookie })
+    expect(res.status).toBe(200)
+    expect(res.body).toEqual({ tag, name: 'Grey Heron', state: 'in_service' })
+    // The vessel page stays the owner's: the asker may not read it there.
+    expect((await api(`/api/vessels/by-tag/${tag}`, { as: asker.cookie })).status).toBe(404)
+    // Another club's vessel is not this club's to report.
+    const elsewhere = await tierClub()
+    const stranger = await person(elsewhere.clubId)
+    expect((await api(`/api/incidents/vessels/${tag}`, { as: stranger.cookie })).status).toBe(404)
+    expect((await api('/api/incidents/vessels/not-a-tag', { as: asker.cookie })).status).toBe(404)
   })
 })
