@@ -126,7 +126,7 @@ async function insertFill(actor: Actor, input: FillRequest, { dto, facts }: Judg
         allowed: dto.allowed, max: dto.permittedMaxBar, factor: dto.limitingFactor, reasons: JSON.stringify(dto.reasons),
         energy: dto.airCharge.storedEnergyJ, tnt: dto.airCharge.tntEquivalentKg, distance: dto.airCharge.minimumDistanceM,
         // The filler's own highest valid tier as the gate saw it (the desk's "fills by tier").
-        tierRank: facts.member.validRank,
+        tierRank: facts.member?.validRank ?? null,
       },
       type: QueryTypes.SELECT,
       transaction,
