@@ -13,6 +13,12 @@ export const FIELD_LABELS: Record<string, string> = {
   reviewNotes: 'Review notes',
   findings: 'Findings',
   actions: 'Actions',
+  // Roster imports (the import's counts)
+  created: 'Members created',
+  updated: 'Members updated',
+  unchanged: 'Rows without change',
+  refused: 'Rows refused',
+  done: 'Rows done',
   // Pressure tiers
   rank: 'Tier',
   confirmed: 'Confirmed (imported record)',

@@ -51,9 +51,10 @@ beforeAll(async () => {
     return v
   }
   const fresh = await vessel(ids.lapsedAfterFill!, 'in_service', clubDay(-10))
-  await makeFill({ eventId, stationId, memberId: ids.lapsedAfterFill!, vesselId: fresh.vesselId })
-  await makeFill({ eventId, stationId, memberId: ids.lapsedBeforeFill!, vesselId: fresh.vesselId })
-  await makeFill({ eventId, stationId, memberId: ids.suspendedAfterFill!, vesselId: fresh.vesselId, supervisorId: ids.safety })
+  // Each fill made at the tier the gate saw then (the tiers are written below, as they stand today).
+  await makeFill({ eventId, stationId, memberId: ids.lapsedAfterFill!, vesselId: fresh.vesselId, tierRank: 1 })
+  await makeFill({ eventId, stationId, memberId: ids.lapsedBeforeFill!, vesselId: fresh.vesselId, tierRank: null })
+  await makeFill({ eventId, stationId, memberId: ids.suspendedAfterFill!, vesselId: fresh.vesselId, supervisorId: ids.safety, tierRank: 2 })
   await makeFill({ eventId, stationId, memberId: ids.in20!, vesselId: fresh.vesselId, reasons: [{ code: 'TIER_CAP_EXCEEDED', message: 'Refused in a test' }] })
   // Lapsed 5 days ago (after the fill), lapsed 60 days ago (before it), suspended after the fill.
   await makeTier({ memberId: ids.lapsedAfterFill!, rank: 1, signedOn: clubDay(-700), expiresOn: clubDay(-5) })
@@ -226,7 +227,7 @@ describe('the desk charts', () => {
     // Tiers in 20, 50, 80 and 120 days (all within 26 weeks); training in 25; fit test in 55; one proof lapsing.
     expect([sum('tiers'), sum('training'), sum('fitTests'), sum('proofs')]).toEqual([4, 1, 1, 1])
     expect(weeks[Math.floor(20 / 7)]!.tiers).toBe(1)
-    // At the event: Ed (T1 then), Flo (T1 lapsed 30 days before: none), Gus (T2, suspended since): allowed fills only.
+    // At the event: Ed at T1, Flo at none (T1 lapsed 30 days before), Gus at T2 (suspended since): allowed fills only.
     expect(events).toEqual([{ eventId: ids.event, heldOn: clubDay(-30), site: 'Desk field', byRank: [0, 1, 1, 0, 0], none: 1 }])
   })
 })

@@ -98,8 +98,8 @@ beforeAll(async () => {
   // Notices and audit events.
   await makeNotice({ memberId: me.memberId, subject: `Your dues ${tag}`, textBody: `Dear Mira ${tag}`, status: 'sent', sentAt: NOW })
   await makeNotice({ memberId: other.memberId, subject: `Otto's dues ${tag}`, textBody: `Dear Otto ${tag}` })
-  await makeAuditEvent({ actorMemberId: officer.memberId, action: 'membership.roles_changed', subjectType: 'membership', subjectId: me.memberId, reason: `Mira helps at the field ${tag}` })
-  await makeAuditEvent({ actorMemberId: officer.memberId, action: 'membership.roles_changed', subjectType: 'membership', subjectId: other.memberId, reason: `Otto helps too ${tag}` })
+  await makeAuditEvent({ actorMemberId: officer.memberId, action: 'member.roles', subjectType: 'membership', subjectId: me.memberId, reason: `Mira helps at the field ${tag}` })
+  await makeAuditEvent({ actorMemberId: officer.memberId, action: 'member.roles', subjectType: 'membership', subjectId: other.memberId, reason: `Otto helps too ${tag}` })
 })
 
 describe('Download my data', () => {
