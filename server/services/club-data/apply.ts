@@ -81,6 +81,33 @@ function foldRow(plan: MemberPlan, row: ImportRow, lookups: ClubLookups): boolea
   return true
 }
 
+/** What a batch (or a whole dry run) does to its members so far, by e-mail. */
+export type MemberPlans = Map<string, MemberPlan>
+
+/**
+ * Folds checked `row` into `plans`: the first row of an e-mail creates the member (no membership of
+ * this club yet) or is compared with `member` as read; a later one is compared with the member as the
+ * rows before it left them. The outcome of the row; the importing admin's own membership is refused.
+ * The dry run and the run both count with it, so the dry run's counts are the run's.
+ */
+export function planRow(plans: MemberPlans, row: ImportRow, member: MemberNow | undefined, ownMembershipId: string, lookups: ClubLookups): AppliedOutcome | 'refused' {
+  const plan = plans.get(row.email)
+  if (plan) return foldRow(plan, row, lookups) ? 'updated' : 'unchanged'
+  if (member?.membership_id === ownMembershipId) return 'refused'
+  if (!member?.membership_id) {
+    const created = newMemberPlan(row, member, lookups)
+    planRecords(created, row, lookups)
+    plans.set(row.email, created)
+    return 'created'
+  }
+  const existing: MemberPlan = {
+    before: member, now: { ...member, course_dates: [...member.course_dates ?? []], tier_ranks: [...member.tier_ranks ?? []] },
+    create: false, contact: {}, addRoles: new Set(), paidThrough: null, planId: null, training: [], tiers: [],
+  }
+  plans.set(row.email, existing)
+  return foldRow(existing, row, lookups) ? 'updated' : 'unchanged'
+}
+
 /**
  * Writes one batch of checked roster rows inside the run's transaction, set-based: the batch's
  * members read in one query, then one statement each for the new accounts, the new memberships, the
@@ -100,26 +127,7 @@ export async function applyImportBatch(actor: Actor, rows: readonly BatchRow[], 
   const clubId = actor.club.id
   const members = await membersByEmail(clubId, [...new Set(rows.map(r => r.row.email))], transaction)
   const plans = new Map<string, MemberPlan>()
-  for (const { row } of rows) {
-    const plan = plans.get(row.email)
-    const member = members.get(row.email)
-    if (plan) counts[foldRow(plan, row, lookups) ? 'updated' : 'unchanged']++
-    else if (member?.membership_id === actor.membership.id) counts.refused++
-    else if (!member?.membership_id) {
-      const created = newMemberPlan(row, member, lookups)
-      planRecords(created, row, lookups)
-      plans.set(row.email, created)
-      counts.created++
-    }
-    else {
-      const existing: MemberPlan = {
-        before: member, now: { ...member, course_dates: [...member.course_dates ?? []], tier_ranks: [...member.tier_ranks ?? []] },
-        create: false, contact: {}, addRoles: new Set(), paidThrough: null, planId: null, training: [], tiers: [],
-      }
-      plans.set(row.email, existing)
-      counts[foldRow(existing, row, lookups) ? 'updated' : 'unchanged']++
-    }
-  }
+  for (const { row } of rows) counts[planRow(plans, row, members.get(row.email), actor.membership.id, lookups)]++
   const all = [...plans.values()]
   const db = useDb()
   const json = (value: unknown) => JSON.stringify(value)
