@@ -117,6 +117,13 @@ export const FIELD_LABELS: Record<string, string> = {
   stationIds: 'Fill stations',
   staffIds: 'Staff',
   cancelled: 'Cancelled',
+  // Roster imports (the import's own event counts its rows)
+  rows: 'Rows in the file',
+  done: 'Rows done',
+  created: 'Members created',
+  updated: 'Members updated',
+  unchanged: 'Rows that changed nothing',
+  refused: 'Rows refused',
 }
 
 /** The words for field `name`, or the name itself when it has none. */
