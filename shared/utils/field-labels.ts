@@ -13,12 +13,6 @@ export const FIELD_LABELS: Record<string, string> = {
   reviewNotes: 'Review notes',
   findings: 'Findings',
   actions: 'Actions',
-  // Roster imports (the import's counts)
-  created: 'Members created',
-  updated: 'Members updated',
-  unchanged: 'Rows without change',
-  refused: 'Rows refused',
-  done: 'Rows done',
   // Pressure tiers
   rank: 'Tier',
   confirmed: 'Confirmed (imported record)',
@@ -130,7 +124,14 @@ export const FIELD_LABELS: Record<string, string> = {
   email: 'E-mail',
   paymentCustomersDeleted: 'Customer records deleted at the payment service',
   personalUploads: 'Personal files removed',
-  rows: 'Audit events changed',
+  // Roster imports (the import's own event counts its rows)
+  // `rows`: the file's rows for an import, the events changed for the audit scrub
+  rows: 'Rows',
+  done: 'Rows done',
+  created: 'Members created',
+  updated: 'Members updated',
+  unchanged: 'Rows that changed nothing',
+  refused: 'Rows refused',
 }
 
 /** The words for field `name`, or the name itself when it has none. */

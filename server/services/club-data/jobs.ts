@@ -7,12 +7,16 @@ import { checkImportRow, IMPORT_MAX_COLUMNS, IMPORT_MAX_ROWS, issuesText, type I
 import { mappedCells, suggestMapping } from '#shared/utils/import-fields'
 import type { ImportJobDto, ImportJobStatus, ImportOutcome, ImportRowDto } from '#shared/types/club-data'
 import { csvHead, csvRows, toCsv } from './csv'
-import { changesAnything, changesFor, clubLookups, lookupIssues, membersByEmail } from './lookups'
+import { clubLookups, lookupIssues, membersByEmail } from './lookups'
+import { planRow, type AppliedOutcome, type MemberPlans } from './apply'
 
 /** Rows of the file shown on the mapping step. */
 export const PREVIEW_ROWS = 5
 /** Rows of each outcome the dry run shows (the refused ones all download). */
 const SHOWN_ROWS = 20
+/** The dry run's word for what the run will do with a row. */
+const DRY_OUTCOMES: Record<AppliedOutcome | 'refused', ImportOutcome> = { created: 'create', updated: 'update', unchanged: 'unchanged', refused: 'refused' }
+const OWN_MEMBERSHIP: ImportIssue = { field: 'email', reason: 'This is your own membership: an import never changes it' }
 /** Staging rows written per statement. */
 const DRY_RUN_BATCH = 500
 
@@ -108,20 +112,19 @@ export async function dryRunImport(actor: Actor, id: string, mapping: ImportMapp
   const lookups = await clubLookups(actor.club.id)
   const today = clubToday(actor.club)
   const ownEmail = actor.user.email.toLowerCase()
-  const seen = new Set<string>()
+  const plans: MemberPlans = new Map()
   const counts = { create: 0, update: 0, unchanged: 0, refused: 0 }
   let batch: StagedRow[] = []
   let line = 0
 
   const flush = async () => {
     const valid = batch.filter(r => r.values)
-    const members = await membersByEmail(actor.club.id, [...new Set(valid.map(r => r.email!))])
+    const members = await membersByEmail(actor.club.id, [...new Set(valid.map(r => r.email!).filter(e => !plans.has(e)))])
+    // A later row of the same e-mail is compared with the member as the rows before it leave them.
     for (const r of valid) {
-      const member = members.get(r.email!)
-      if (member?.membership_id) r.outcome = changesAnything(changesFor(r.values!, member, lookups)) ? 'update' : 'unchanged'
-      // A later row of the same e-mail adds to the member an earlier row creates.
-      else r.outcome = seen.has(r.email!) ? 'update' : 'create'
-      seen.add(r.email!)
+      const outcome = planRow(plans, r.values!, members.get(r.email!), actor.membership.id, lookups)
+      if (outcome === 'refused') Object.assign(r, { values: null, issues: [OWN_MEMBERSHIP] })
+      r.outcome = DRY_OUTCOMES[outcome]
     }
     for (const r of batch) counts[r.outcome]++
     await db.query(`
@@ -153,7 +156,7 @@ function stageRow(line: number, cells: string[], mapping: ImportMapping, today: 
   const email = 'row' in checked ? checked.row.email : (mappedCells(cells, mapping.columns).email || '').toLowerCase() || null
   let issues = 'issues' in checked ? checked.issues : lookupIssues(checked.row, lookups)
   // The admin's own membership is never changed by an import: their roles and dues stay theirs to change by hand.
-  if (!issues.length && email === ownEmail) issues = [{ field: 'email', reason: 'This is your own membership: an import never changes it' }]
+  if (!issues.length && email === ownEmail) issues = [OWN_MEMBERSHIP]
   if (issues.length) return { line, cells, email, outcome: 'refused', issues, values: null }
   return { line, cells, email, outcome: 'create', issues: [], values: (checked as { row: ImportRow }).row }
 }

@@ -4,9 +4,9 @@ import { Club, Membership, User } from '../../models'
 import type { Actor } from '../../utils/auth'
 import type { ImportRow } from '#shared/schemas/club-data'
 import { recordAudit } from '../audit'
-import { applyImportRow, type AppliedOutcome } from './apply'
+import { applyImportBatch, type BatchRow, type ImportCounts } from './apply'
 import { importFilePath } from './jobs'
-import { clubLookups, membersByEmail, type ClubLookups } from './lookups'
+import { clubLookups, type ClubLookups } from './lookups'
 
 /*
  * The import job runs wherever there is a server to run it:
@@ -23,7 +23,7 @@ import { clubLookups, membersByEmail, type ClubLookups } from './lookups'
  */
 
 /** Rows written per transaction: small enough that progress moves every second, large enough to be quick. */
-const RUN_BATCH = 250
+const RUN_BATCH = 500
 
 function leaseSeconds(): number {
   return Math.max(1, Number(useRuntimeConfig().importLeaseSeconds) || 60)
@@ -58,49 +58,44 @@ async function jobActor(job: ClaimedJob): Promise<Actor> {
 
 interface StagingRow { line: number, email: string | null, outcome: string, row_values: ImportRow | null }
 
-type Counts = Record<AppliedOutcome | 'refused', number>
-
 /**
- * Writes `rows` in `transaction`. With `savepoints`, each row stands behind its own savepoint: a row
- * the database refuses (a rule the dry run could not see) is counted refused and the rest goes on.
+ * Writes `rows` in `transaction`: the whole batch set-based (`applyImportBatch`), or with `oneByOne`
+ * each row alone behind its own savepoint, so that a row the database refuses (a rule the dry run
+ * could not see) is counted refused and the rest goes on.
  */
-async function writeRows(job: ClaimedJob, actor: Actor, lookups: ClubLookups, rows: StagingRow[], savepoints: boolean, transaction: Transaction): Promise<Counts> {
-  const members = await membersByEmail(job.club_id, [...new Set(rows.filter(r => r.row_values).map(r => r.email!))], transaction)
-  const counts: Counts = { created: 0, updated: 0, unchanged: 0, refused: 0 }
-  for (const r of rows) {
-    const member = r.email ? members.get(r.email) : undefined
-    if (!r.row_values || member?.membership_id === job.created_by_membership_id) {
-      counts.refused++
-      continue
-    }
-    const applied = savepoints
-      ? await useDb().transaction({ transaction }, t => applyImportRow(actor, r.row_values!, member, lookups, t)).catch((error: unknown) => {
-          console.error(`[imports] job ${job.id} row ${r.line} refused by the database:`, (error as Error).message)
-          return null
-        })
-      : await applyImportRow(actor, r.row_values, member, lookups, transaction)
-    if (!applied) {
-      counts.refused++
-      continue
-    }
-    counts[applied.outcome]++
-    members.set(r.email!, applied.member)
+async function writeRows(job: ClaimedJob, actor: Actor, lookups: ClubLookups, rows: StagingRow[], oneByOne: boolean, transaction: Transaction): Promise<ImportCounts> {
+  const checked: BatchRow[] = rows.filter(r => r.row_values).map(r => ({ line: r.line, row: r.row_values! }))
+  const counts: ImportCounts = { created: 0, updated: 0, unchanged: 0, refused: rows.length - checked.length }
+  const add = (c: ImportCounts) => {
+    for (const k of Object.keys(counts) as (keyof ImportCounts)[]) counts[k] += c[k]
+  }
+  if (!oneByOne) {
+    add(await applyImportBatch(actor, checked, lookups, transaction))
+    return counts
+  }
+  for (const r of checked) {
+    const one = await useDb().transaction({ transaction }, t => applyImportBatch(actor, [r], lookups, t)).catch((error: unknown) => {
+      console.error(`[imports] job ${job.id} row ${r.line} refused by the database:`, (error as Error).message)
+      return null
+    })
+    if (one) add(one)
+    else counts.refused++
   }
   return counts
 }
 
 /**
  * Writes the next batch of claimed `job`; false when no row was left. A batch the database refuses
- * is written again row by row behind savepoints (quick when all is well, exact when it is not).
+ * is written again row by row behind savepoints (set-based when all is well, exact when it is not).
  * Throws LostClaim when another server holds the job now.
  */
 async function runBatch(job: ClaimedJob, actor: Actor, lookups: ClubLookups): Promise<boolean> {
-  const attempt = (savepoints: boolean) => useDb().transaction(async (transaction) => {
+  const attempt = (oneByOne: boolean) => useDb().transaction(async (transaction) => {
     const rows = await useDb().query<StagingRow>(
       'SELECT line, email, outcome, row_values FROM import_rows WHERE job_id = :id AND NOT done ORDER BY line LIMIT :n',
       { replacements: { id: job.id, n: RUN_BATCH }, type: QueryTypes.SELECT, transaction })
     if (!rows.length) return false
-    const counts = await writeRows(job, actor, lookups, rows, savepoints, transaction)
+    const counts = await writeRows(job, actor, lookups, rows, oneByOne, transaction)
     await useDb().query('UPDATE import_rows SET done = true WHERE job_id = :id AND line IN (:lines)',
       { replacements: { id: job.id, lines: rows.map(r => r.line) }, transaction })
     const [kept] = await useDb().query<{ id: string }>(`

@@ -216,6 +216,56 @@ describe('roster import', () => {
     expect(made.map(m => m.email)).toEqual(Array.from({ length: 7 }, (_, i) => `l${i + 3}-${t}@import.example`))
   })
 
+  it('rows of one member in one batch make one member and one audit event, as if written one after another', async () => {
+    const t = randomUUID().slice(0, 6)
+    const twice = `twice-${t}@import.example`
+    const existing = await makeMember({ roles: ['instructor'], paidThrough: '2026-01-31' })
+    const job = await dryRun(await upload(roster([
+      `Tam Twice;${twice};;;;Instructor;;;First aid;01/03/2025;Dee Fox;;;`,
+      `Tam Twice;${twice};+44 20 7946 0101;;31/12/2027;;;;First aid;01/03/2025;Dee Fox;T1;02/03/2025;Dee Fox`,
+      `Cy Twice;${existing.email};;;;Safety officer;;;;;;;;`,
+      `Cy Twice;${existing.email};+44 20 7946 0102;;30/06/2028;Instructor;;;;;;;;`,
+      `Cy Twice;${existing.email};;;30/06/2027;;;;;;;;;`,
+    ])))
+    expect(job.dryRun).toEqual({ total: 5, create: 1, update: 3, unchanged: 1, refused: 0 })
+    const end = (await runToEnd(job.id)).at(-1)!
+    expect(end.progress).toMatchObject({ done: 5, created: 1, updated: 3, unchanged: 1, refused: 0 })
+
+    const members = await sql<{ email: string, id: string, roles: string[], paid_through: string, phone: string, records: string, tiers: string }>(`
+      SELECT u.email, m.id, m.roles, m.paid_through::text, m.phone,
+        (SELECT count(*) FROM training_records r WHERE r.membership_id = m.id) AS records,
+        (SELECT count(*) FROM member_tiers r WHERE r.membership_id = m.id) AS tiers
+      FROM users u JOIN memberships m ON m.user_id = u.id WHERE u.email IN ($1, $2) ORDER BY u.email`, [existing.email, twice])
+    const byEmail = Object.fromEntries(members.map(m => [m.email, m]))
+    expect(byEmail[twice]).toMatchObject({ roles: ['member', 'instructor'], paid_through: '2027-12-31', phone: '+44 20 7946 0101', records: '1', tiers: '1' })
+    // Paid-through never moves back (the third row's earlier date is ignored), roles are only added.
+    expect(byEmail[existing.email]).toMatchObject({ roles: ['member', 'instructor', 'safety_officer'], paid_through: '2028-06-30', phone: '+44 20 7946 0102' })
+
+    const events = await sql<{ subject_id: string, before: Record<string, unknown> | null, after: Record<string, unknown> }>(
+      `SELECT subject_id, before, after FROM audit_events WHERE action = 'member.imported' AND subject_id IN ($1, $2)`,
+      [byEmail[twice]!.id, byEmail[existing.email]!.id])
+    expect(events).toHaveLength(2)
+    expect(events.find(e => e.subject_id === byEmail[twice]!.id)).toMatchObject({ before: null, after: { roles: ['member', 'instructor'], paidThrough: '2027-12-31' } })
+    expect(events.find(e => e.subject_id === byEmail[existing.email]!.id)).toMatchObject({
+      before: { roles: ['member', 'instructor'], paidThrough: '2026-01-31' },
+      after: { roles: ['member', 'instructor', 'safety_officer'], paidThrough: '2028-06-30' },
+    })
+  })
+
+  it('a batch the database refuses is written again row by row: the refused row counted, the others written', async () => {
+    const t = randomUUID().slice(0, 6)
+    const lines = Array.from({ length: 6 }, (_, i) => `Member ${i} Retry;r${i}-${t}@import.example;;;31/12/2027;;;;;;;;;`)
+    const job = await dryRun(await upload(roster(lines)))
+    expect(job.dryRun).toMatchObject({ total: 6, create: 6 })
+    // A value the dry run could not have let through stands in for a rule only the database knows.
+    await sql(`UPDATE import_rows SET row_values = jsonb_set(row_values, '{paidThrough}', '"2027-02-31"') WHERE job_id = $1 AND line = 4`, [job.id])
+    const end = (await runToEnd(job.id)).at(-1)!
+    expect(end).toMatchObject({ status: 'done', progress: { done: 6, created: 5, refused: 1 } })
+    const made = await sql<{ email: string }>('SELECT email FROM users WHERE email LIKE $1 ORDER BY email', [`%-${t}@import.example`])
+    // The refused row's account went back with its savepoint: no account without a membership is left.
+    expect(made.map(m => m.email)).toEqual([0, 1, 3, 4, 5].map(i => `r${i}-${t}@import.example`))
+  })
+
   it('refuses a file that is not UTF-8 text', async () => {
     const form = new FormData()
     form.append('file', new Blob([new Uint8Array([0x89, 0x50, 0x4E, 0x47, 0, 0, 0, 0])]), 'x.csv')
