@@ -3,7 +3,8 @@ import { describe, it, expect, beforeAll, inject } from 'vitest'
 import { api } from '../../support/http'
 import { linkIn, mailsTo, waitForMail } from '../../support/mail'
 import { sql } from '../../support/db'
-import { makeClub, makeMember, type MadeMember } from '../../support/factories'
+import { clubDay, makeClub, makeMember, type MadeMember } from '../../support/factories'
+import { planId } from '../dues/support'
 import { signIn } from '../../support/global-setup'
 import { postFrom } from '../../support/from-address'
 import { emailKey } from '../../../server/services/accounts/sign-in-limits'
@@ -111,5 +112,24 @@ describe('send the welcome', () => {
     expect(res.body).toEqual({ queued: 1, waiting: 0 })
     await waitForMail(late.email, WELCOME_SUBJECT)
     for (const m of imported) expect(await welcomeNotices(m.memberId)).toBe(1)
+  })
+})
+
+describe('before the welcome', () => {
+  const noticesOf = async (memberId: string, kind: string) =>
+    (await sql<{ n: number }>('SELECT count(*)::int AS n FROM notices WHERE membership_id = $1 AND kind = $2', [memberId, kind]))[0]!.n
+  const cashPayment = async (memberId: string, reference: string) => api('/api/dues/payments', {
+    as: 'admin',
+    body: { memberId, planId: await planId('adult'), method: 'cash', amountMinor: 6000, paidOn: clubDay(-1), reference },
+  })
+
+  it('the club e-mails an imported member nothing until the welcome is sent, then as anyone', async () => {
+    const m = await makeMember({ passwordHash: null })
+    expect((await cashPayment(m.memberId, 'Before the welcome')).status).toBe(201)
+    expect(await noticesOf(m.memberId, 'payment_receipt')).toBe(0)
+    expect((await api('/api/members/welcome', { as: 'admin', body: { confirm: true } })).status).toBe(200)
+    expect(await welcomeNotices(m.memberId)).toBe(1)
+    expect((await cashPayment(m.memberId, 'After the welcome')).status).toBe(201)
+    expect(await noticesOf(m.memberId, 'payment_receipt')).toBe(1)
   })
 })
