@@ -5,6 +5,7 @@ import { sql } from '../../support/db'
 import { clubDay } from '../../support/factories'
 import { waitForMail } from '../../support/mail'
 import { CARDS, eventually, paidThroughOf, payOnPage, payer, paymentsOf, planId, startCheckout } from './support'
+import { parseCsv } from '../../support/csv'
 
 function plusMonths(date: string, months: number): string {
   const [y, m, d] = date.split('-').map(Number) as [number, number, number]
@@ -13,39 +14,6 @@ function plusMonths(date: string, months: number): string {
 }
 
 const offline = (body: Record<string, unknown>) => api('/api/dues/payments', { as: 'admin', body })
-
-/** A minimal CSV reader (RFC 4180 quoting), independent of the app's writer. */
-function parseCsv(text: string): string[][] {
-  const rows: string[][] = []
-  let row: string[] = []
-  let cell = ''
-  let quoted = false
-  for (let i = 0; i < text.length; i++) {
-    const c = text[i]!
-    if (quoted) {
-      if (c === '"' && text[i + 1] === '"') {
-        cell += '"'
-        i++
-      }
-      else if (c === '"') quoted = false
-      else cell += c
-    }
-    else if (c === '"') quoted = true
-    else if (c === ',') {
-      row.push(cell)
-      cell = ''
-    }
-    else if (c === '\n' || c === '\r') {
-      if (c === '\r' && text[i + 1] === '\n') i++
-      row.push(cell)
-      rows.push(row)
-      row = []
-      cell = ''
-    }
-    else cell += c
-  }
-  return rows
-}
 
 describe('offline payments', () => {
   it('a cash payment renews like a card payment, is receipted and audited', async () => {
