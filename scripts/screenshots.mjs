@@ -32,6 +32,11 @@ const SHOTS = [
   { who: 'safety@hoopwise.example', path: '/fill-stations', name: 'fill-stations' },
   { who: 'member@hoopwise.example', path: '/fill-pass', name: 'fill-pass' },
   { who: 'member@hoopwise.example', path: '/fills', name: 'fills' },
+  { who: 'safety@hoopwise.example', path: '/audit/desk', name: 'audit-desk' },
+  { who: 'safety@hoopwise.example', path: '/incidents', name: 'incidents' },
+  { who: 'member@hoopwise.example', path: '/incidents/new', name: 'incident-new' },
+  { who: 'admin@hoopwise.example', path: '/members/import', name: 'members-import' },
+  { who: 'instructor@hoopwise.example', path: '/imported-records', name: 'imported-records' },
 ]
 
 mkdirSync(outDir, { recursive: true })
