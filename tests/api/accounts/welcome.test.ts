@@ -4,7 +4,6 @@ import { api } from '../../support/http'
 import { linkIn, mailsTo, waitForMail } from '../../support/mail'
 import { sql } from '../../support/db'
 import { clubDay, makeClub, makeMember, type MadeMember } from '../../support/factories'
-import { planId } from '../dues/support'
 import { signIn } from '../../support/global-setup'
 import { postFrom } from '../../support/from-address'
 import { emailKey } from '../../../server/services/accounts/sign-in-limits'
@@ -116,18 +115,29 @@ describe('send the welcome', () => {
 })
 
 describe('before the welcome', () => {
+  // A club of its own: a welcome press reaches every imported member of the club it is pressed in.
+  let clubId: string
+  let admin: string
+  let plan: string
+  beforeAll(async () => {
+    ;({ id: clubId } = await makeClub({ name: `Quiet Club ${randomUUID().slice(0, 6)}`, tagPrefix: 'QUI' }))
+    const a = await makeMember({ clubId, roles: ['admin'] })
+    admin = await signIn(inject('baseUrl'), a.email, a.password)
+    const [row] = await sql<{ id: string }>(`SELECT id FROM dues_plans WHERE club_id = $1 AND audience = 'adult' ORDER BY code LIMIT 1`, [clubId])
+    plan = row!.id
+  })
   const noticesOf = async (memberId: string, kind: string) =>
     (await sql<{ n: number }>('SELECT count(*)::int AS n FROM notices WHERE membership_id = $1 AND kind = $2', [memberId, kind]))[0]!.n
-  const cashPayment = async (memberId: string, reference: string) => api('/api/dues/payments', {
-    as: 'admin',
-    body: { memberId, planId: await planId('adult'), method: 'cash', amountMinor: 6000, paidOn: clubDay(-1), reference },
+  const cashPayment = (memberId: string, reference: string) => api('/api/dues/payments', {
+    as: admin,
+    body: { memberId, planId: plan, method: 'cash', amountMinor: 6000, paidOn: clubDay(-1), reference },
   })
 
   it('the club e-mails an imported member nothing until the welcome is sent, then as anyone', async () => {
-    const m = await makeMember({ passwordHash: null })
+    const m = await makeMember({ clubId, passwordHash: null })
     expect((await cashPayment(m.memberId, 'Before the welcome')).status).toBe(200)
     expect(await noticesOf(m.memberId, 'payment_receipt')).toBe(0)
-    expect((await api('/api/members/welcome', { as: 'admin', body: { confirm: true } })).status).toBe(200)
+    expect((await api('/api/members/welcome', { as: admin, body: { confirm: true } })).status).toBe(200)
     expect(await welcomeNotices(m.memberId)).toBe(1)
     expect((await cashPayment(m.memberId, 'After the welcome')).status).toBe(200)
     expect(await noticesOf(m.memberId, 'payment_receipt')).toBe(1)
