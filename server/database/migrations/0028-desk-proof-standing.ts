@@ -25,7 +25,9 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
   await sequelize.query(`
     ALTER TABLE vessel_proof_tallies ADD COLUMN ends_on date, ADD COLUMN construction text, ADD COLUMN in_service boolean;
     UPDATE vessel_proof_tallies t SET construction = v.construction, in_service = v.state = 'in_service' FROM vessels v WHERE v.id = t.vessel_id;
-    ALTER TABLE vessel_proof_tallies ALTER COLUMN construction SET NOT NULL, ALTER COLUMN in_service SET NOT NULL;
+    ALTER TABLE vessel_proof_tallies ALTER COLUMN construction SET NOT NULL, ALTER COLUMN in_service SET NOT NULL,
+      ADD CONSTRAINT vessel_proof_tallies_construction_check
+        CHECK (construction IN ('single_bottle', 'spliced_bottles', 'overwrapped_liner', 'mandrel_tube', 'other'));
     CREATE INDEX vessel_proof_tallies_ends ON vessel_proof_tallies (club_id, ends_on) WHERE ends_on IS NOT NULL;
     CREATE INDEX vessel_proof_tallies_construction_pass ON vessel_proof_tallies (club_id, construction, last_pass_on);
 
