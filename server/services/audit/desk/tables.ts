@@ -80,10 +80,11 @@ export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQ
     // `sort` is one of the table's column keys (checked above), so it may be written into the statement.
     const order = q.sort === 'state' || q.sort === 'kind' ? 't.state' : `t."${q.sort}"`
     const found = await useDb().query<DeskSourceRow & { total: number }>(
-      `SELECT count(*) OVER ()::int AS total, t.* FROM (${source.sql(ctx)}) t WHERE ${where.join(' AND ')}
+      `SELECT ${opts.all ? '' : 'count(*) OVER ()::int AS total,'} t.* FROM (${source.sql(ctx)}) t WHERE ${where.join(' AND ')}
         ORDER BY ${order} ${q.dir === 'desc' ? 'DESC' : 'ASC'} NULLS LAST, t.id ${opts.all ? '' : 'LIMIT :limit OFFSET :offset'}`,
       { replacements: { ...ctx.replacements, state: query.state, pattern: query.q ? containsPattern(query.q) : null, limit: query.pageSize, offset: (query.page - 1) * query.pageSize }, type: QueryTypes.SELECT })
-    total = found[0]?.total ?? 0
+    // Every row (the CSV) needs no window count: the total is the rows themselves.
+    total = opts.all ? found.length : found[0]?.total ?? 0
     rows = found
   }
   return { table, today: ctx.today, columns, items: rows.map(r => toRow(table, r, columns)), page: query.page, pageSize: query.pageSize, total }
