@@ -41,8 +41,10 @@ const select = <T extends object>(db: Sequelize, sql: string, target: ErasureTar
 // application may not change them; the app writes ids there, never names: decision 0046), the
 // migrations' bookkeeping, the erasure list, and the tables the steps above change by id.
 const NOT_SEARCHED_TABLES = new Set([...APPEND_ONLY_TABLES, ...MIGRATOR_ONLY_TABLES, 'erasures', 'memberships', 'users'])
-// Copies of a name kept by id: changed for the erased member only, so a namesake keeps theirs.
-const NOT_SEARCHED_COLUMNS = new Set(['training_records.trainee_name', 'training_records.trainer_name', 'waiver_acceptances.typed_name'])
+// Copies of a name kept by id: changed for the erased member only, so a namesake keeps theirs. And
+// the proof tally's copy of a vessel's construction (a word of a fixed list, kept by trigger).
+const NOT_SEARCHED_COLUMNS = new Set(['training_records.trainee_name', 'training_records.trainer_name', 'waiver_acceptances.typed_name',
+  'vessel_proof_tallies.construction'])
 
 /**
  * The steps, in order. Each is one line here; a new place where personal data lives (say, another

@@ -8,8 +8,8 @@ function policyInteger(n: number): string {
 }
 
 /** `CASE v.construction WHEN … THEN n … END` of one policy figure per construction. */
-function byConstruction(figure: (c: typeof VESSEL_CONSTRUCTIONS[number]) => number): string {
-  return `CASE v.construction ${VESSEL_CONSTRUCTIONS.map(c => `WHEN '${c}' THEN ${policyInteger(figure(c))}`).join(' ')} END`
+function byConstruction(figure: (c: typeof VESSEL_CONSTRUCTIONS[number]) => number, column = 'v.construction'): string {
+  return `CASE ${column} ${VESSEL_CONSTRUCTIONS.map(c => `WHEN '${c}' THEN ${policyInteger(figure(c))}`).join(' ')} END`
 }
 
 /**
@@ -48,4 +48,24 @@ export function proofStandingSql(policy: VesselPolicyDto, p: { today: string }):
              CASE WHEN v.state = 'in_service' THEN pf.valid_through END AS valid_through,
              (v.state = 'in_service' AND coalesce(pf.lapsed, false)) AS lapsed
     ) ps`
+}
+
+/**
+ * The proof standing read from the stored tally instead of re-derived: `vessel_proof_tallies t` keeps
+ * a vessel's last pass day, the allowed fills at events held on or after it, the first proof-ending
+ * event dated after it (`ends_on`), its construction and whether it is in service, kept by triggers on
+ * the proof tests, fills, vessel events and vessels (migrations 0027, 0028); the club's `policy`
+ * (interval and fill limit by construction) is applied here, so a policy change needs no refresh. A
+ * `CROSS JOIN LATERAL … ts` to append after `vessel_proof_tallies t`, giving `ts.valid_through`,
+ * `ts.fill_limit`, `ts.fills_remaining` and `ts.lapsed` (interval passed, fill limit reached, or a
+ * proof-ending event by today) for a vessel in service (`t.in_service`) — as `proofStandingSql`
+ * answers (tests/api/vessels/standing-sql.test.ts compares both with the rule). `today` names the parameter.
+ */
+export function tallyStandingSql(policy: VesselPolicyDto, p: { today: string }): string {
+  const today = `CAST(${p.today} AS date)`
+  return `
+    CROSS JOIN LATERAL (SELECT (t.last_pass_on + make_interval(months => ${byConstruction(c => policy.intervalMonths[c], 't.construction')}))::date AS valid_through,
+                               ${byConstruction(c => policy.fillLimit[constructionFamily(c)], 't.construction')} AS fill_limit) tr
+    CROSS JOIN LATERAL (SELECT tr.valid_through, tr.fill_limit, greatest(0, tr.fill_limit - t.fills_since_pass) AS fills_remaining,
+                               (${today} > tr.valid_through OR t.fills_since_pass >= tr.fill_limit OR coalesce(t.ends_on <= ${today}, false)) AS lapsed) ts`
 }

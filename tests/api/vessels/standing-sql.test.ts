@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import { clubDay, makeClub, makeFill, makeFillStation, makeLaunchEvent, makeMember, makeProofTest, makeVessel } from '../../support/factories'
 import { sql } from '../../support/db'
 import { deriveProofStanding } from '../../../server/services/vessels/standing'
-import { proofStandingSql } from '../../../server/services/vessels/standing-sql'
+import { proofStandingSql, tallyStandingSql } from '../../../server/services/vessels/standing-sql'
 import type { VesselPolicyDto } from '../../../shared/types/proof-tests'
 import { PROOF_INVALIDATING_EVENTS, VESSEL_CONSTRUCTIONS, type ProofInvalidatingEvent, type VesselConstruction } from '../../../shared/utils/vessel-arithmetic'
 import type { VesselState } from '../../../shared/utils/vessel-states'
@@ -51,18 +51,24 @@ function monthEnd(back: number): string {
 
 const cases: Case[] = []
 let clubId = ''
+let officerId = ''
+let ownerId = ''
+let stationId = ''
+let events: { heldOn: string, eventId: string }[] = []
 
 beforeAll(async () => {
   const club = await makeClub()
   clubId = club.id
   const officer = await makeMember({ clubId, roles: ['instructor', 'safety_officer'] })
   const owner = await makeMember({ clubId })
+  officerId = officer.memberId
+  ownerId = owner.memberId
   await sql(`INSERT INTO vessel_policies (club_id, interval_months_single_bottle, interval_months_spliced_bottles, interval_months_overwrapped_liner,
       interval_months_mandrel_tube, interval_months_other, fill_limit_bottle, fill_limit_laminate)
     VALUES ($1, $2, $3, $4, $5, $6, $7, $8)`, [clubId, POLICY.intervalMonths.single_bottle, POLICY.intervalMonths.spliced_bottles,
     POLICY.intervalMonths.overwrapped_liner, POLICY.intervalMonths.mandrel_tube, POLICY.intervalMonths.other, POLICY.fillLimit.bottle, POLICY.fillLimit.laminate])
-  const { stationId } = await makeFillStation({ clubId })
-  const events = await Promise.all(EVENT_DAYS.map(async d => ({ heldOn: clubDay(d), ...await makeLaunchEvent({ createdBy: officer.memberId, heldOn: clubDay(d), stationIds: [stationId] }) })))
+  stationId = (await makeFillStation({ clubId })).stationId
+  events = await Promise.all(EVENT_DAYS.map(async d => ({ heldOn: clubDay(d), ...await makeLaunchEvent({ createdBy: officer.memberId, heldOn: clubDay(d), stationIds: [stationId] }) })))
   const g = generator(20261203)
   const testDays = [...EVENT_DAYS.map(d => clubDay(d)), monthEnd(1), monthEnd(2), monthEnd(3), monthEnd(13), clubDay(-g.int(450))]
   for (let i = 0; i < 48; i++) {
@@ -118,14 +124,14 @@ interface MirrorRow {
 }
 
 /** The rule's answer from the case's own facts, as loadProofFacts would read them. */
-function ruleAnswer(c: Case, today: string) {
+function ruleAnswer(c: Case, today: string, policy = POLICY) {
   // The latest pass by day, then by entry (a later entry on the same day comes later in the list).
   const lastPass = c.passes.reduce<Case['passes'][number] | null>((best, p) => (!best || p.testedOn >= best.testedOn ? p : best), null)
   const events = lastPass
     ? c.events.filter((e): e is { kind: ProofInvalidatingEvent, on: string } => (PROOF_INVALIDATING_EVENTS as readonly string[]).includes(e.kind) && e.on > lastPass.testedOn)
     : []
   const fillsSinceProof = lastPass ? c.fills.filter(f => f.allowed && f.heldOn >= lastPass.testedOn).length : 0
-  return deriveProofStanding({ state: c.state, construction: c.construction, lastLayupOn: null, proofRequestedAt: null, lastPass, events, fillsSinceProof }, POLICY, today)
+  return deriveProofStanding({ state: c.state, construction: c.construction, lastLayupOn: null, proofRequestedAt: null, lastPass, events, fillsSinceProof }, policy, today)
 }
 
 describe('the proof standing\'s SQL mirror', () => {
@@ -154,5 +160,89 @@ describe('the proof standing\'s SQL mirror', () => {
     const reasons = new Set(cases.flatMap(c => ruleAnswer(c, today).lapseReasons.map(r => r.code)))
     expect([...reasons].sort()).toEqual(['PROOF_FILL_LIMIT_REACHED', 'PROOF_INTERVAL_PASSED', 'PROOF_INVALIDATED'])
     expect(cases.some(c => ruleAnswer(c, today).effectiveState === 'in_service' && ruleAnswer(c, today).validThroughOn)).toBe(true)
+  })
+
+  // The desk reads the standing from the stored tally (last pass, fills since, first proof-ending event
+  // after it, kept by triggers) with the policy applied on reading. After every kind of change the
+  // tally's answer must still be the rule's, vessel by vessel.
+  it('answers from the stored tally as deriveProofStanding, after passes, proof-ending events, fills and a policy change', async () => {
+    const today = clubDay(0)
+    interface TallyRow { id: string, in_service: boolean, last_pass_on: string, fills_since_pass: number, ends_on: string | null, valid_through: string, fills_remaining: number, lapsed: boolean }
+    const compare = async (policy: VesselPolicyDto) => {
+      const rows = await sql<TallyRow>(
+        `SELECT v.id, t.in_service, t.last_pass_on::text AS last_pass_on, t.fills_since_pass, t.ends_on::text AS ends_on,
+                ts.valid_through::text AS valid_through, ts.fills_remaining, ts.lapsed
+           FROM vessel_proof_tallies t JOIN vessels v ON v.id = t.vessel_id ${tallyStandingSql(policy, { today: '$1' })} WHERE t.club_id = $2`, [today, clubId])
+      const byId = new Map(rows.map(r => [r.id, r]))
+      expect(rows).toHaveLength(cases.filter(c => c.passes.length).length)
+      for (const c of cases) {
+        const got = byId.get(c.vesselId)
+        if (!c.passes.length) {
+          expect(got).toBeUndefined()
+          continue
+        }
+        const last = c.passes.reduce((a, p) => (p.testedOn > a ? p.testedOn : a), '')
+        const firstEnding = c.events.filter(e => (PROOF_INVALIDATING_EVENTS as readonly string[]).includes(e.kind) && e.on > last)
+          .map(e => e.on).sort()[0] ?? null
+        expect({ inService: got!.in_service, lastPassOn: got!.last_pass_on, endsOn: got!.ends_on }, JSON.stringify(c))
+          .toEqual({ inService: c.state === 'in_service', lastPassOn: last, endsOn: firstEnding })
+        // The rule's answer for the vessel were it in service (the desk reads the tally for vessels in service only).
+        const want = ruleAnswer({ ...c, state: 'in_service' }, today, policy)
+        expect({ fillsSinceProof: got!.fills_since_pass, fillsRemaining: got!.fills_remaining, validThroughOn: got!.valid_through, lapsed: got!.lapsed }, JSON.stringify(c))
+          .toEqual({ fillsSinceProof: want.fillsSinceProof, fillsRemaining: want.fillsRemaining, validThroughOn: want.validThroughOn, lapsed: want.effectiveState === 'retest_due' })
+      }
+      return new Map(rows.map(r => [r.id, r.lapsed]))
+    }
+    const g = generator(31)
+    const before = await compare(POLICY)
+    expect(new Set(before.values())).toEqual(new Set([true, false]))
+    for (const [i, c] of cases.entries()) {
+      const shape = i % 6
+      if (shape === 0) {
+        // A new pass in the last few days: the fills and events before it stop counting.
+        const testedOn = clubDay(-g.int(3))
+        await makeProofTest({ vesselId: c.vesselId, witnessId: officerId, testedOn, pressureBar: 15 })
+        c.passes.push({ testedOn, ratedFillBar: 10 })
+      }
+      else if (shape === 1 && c.passes.length) {
+        // A proof-ending event today, and one dated before the last pass (which ends nothing).
+        for (const on of [clubDay(0), clubDay(-500)]) {
+          const kind = g.pick(PROOF_INVALIDATING_EVENTS)
+          await sql(`INSERT INTO vessel_events (club_id, vessel_id, kind, happened_on, reason, by_membership_id) VALUES ($1, $2, $3, $4, 'Later case', $5)`,
+            [clubId, c.vesselId, kind, on, officerId])
+          c.events.push({ kind, on })
+        }
+      }
+      else if (shape === 2 && c.passes.length) {
+        // Allowed fills at today's event until the limit is reached.
+        const event = events.find(e => e.heldOn === clubDay(0))!
+        for (let k = 0; k < 4; k++) {
+          await makeFill({ eventId: event.eventId, stationId, memberId: ownerId, vesselId: c.vesselId })
+          c.fills.push({ heldOn: event.heldOn, allowed: true })
+        }
+      }
+    }
+    const after = await compare(POLICY)
+    // A vessel's construction (which picks the interval) and state change: the tally follows.
+    for (const c of cases.filter(c => c.passes.length).slice(0, 6)) {
+      c.construction = c.construction === 'other' ? 'single_bottle' : 'other'
+      c.state = c.state === 'in_service' ? 'quarantined' : 'in_service'
+      await sql(`UPDATE vessels SET construction = $2, state = $3 WHERE id = $1`, [c.vesselId, c.construction, c.state])
+    }
+    await compare(POLICY)
+
+    // The changes moved standings both ways: renewed by a pass, ended by an event or by the fill count.
+    const moved = (from: boolean) => [...after].filter(([id, lapsed]) => before.get(id) === from && lapsed !== from).length
+    expect(moved(true)).toBeGreaterThan(0)
+    expect(moved(false)).toBeGreaterThan(0)
+
+    // The club changes its policy: the stored tally needs no refresh, the standing follows at once.
+    const changed: VesselPolicyDto = { ...POLICY, intervalMonths: { single_bottle: 24, spliced_bottles: 1, overwrapped_liner: 2, mandrel_tube: 36, other: 5 }, fillLimit: { bottle: 9, laminate: 2 } }
+    await sql(`UPDATE vessel_policies SET interval_months_single_bottle = $2, interval_months_spliced_bottles = $3, interval_months_overwrapped_liner = $4,
+        interval_months_mandrel_tube = $5, interval_months_other = $6, fill_limit_bottle = $7, fill_limit_laminate = $8 WHERE club_id = $1`,
+    [clubId, changed.intervalMonths.single_bottle, changed.intervalMonths.spliced_bottles, changed.intervalMonths.overwrapped_liner,
+      changed.intervalMonths.mandrel_tube, changed.intervalMonths.other, changed.fillLimit.bottle, changed.fillLimit.laminate])
+    const underChanged = await compare(changed)
+    expect([...underChanged].some(([id, lapsed]) => after.get(id) !== lapsed)).toBe(true)
   })
 })

@@ -1,8 +1,8 @@
 import { QueryTypes } from 'sequelize'
 import { GAUGE_STATES, gaugeCurrentThrough, gaugeState } from '#shared/utils/event-rules'
 import type { DeskTable } from '#shared/utils/audit-desk'
-import { proofStandingSql } from '../../vessels'
-import { PROOF_INVALIDATING_EVENTS } from '#shared/utils/vessel-arithmetic'
+import { tallyStandingSql } from '../../vessels'
+import { VESSEL_CONSTRUCTIONS } from '#shared/utils/vessel-arithmetic'
 import type { DeskContext } from './context'
 
 /**
@@ -10,7 +10,7 @@ import type { DeskContext } from './context'
  * column keys (quoted) plus `id`, `link_kind`, `link_id`, `link_label`, `search`, `state` and `due_on`
  * (the day a windowed row falls due); the desk wraps it to filter, sort, page and count in the same
  * query. A computed source is a function (the gauge rule lives in TypeScript and is applied there;
- * the club's few stations make that cheap). The proof standing comes from its SQL mirror.
+ * the club's few stations make that cheap). The proof standing comes from the stored proof tally.
  */
 export type DeskSource
   = | { kind: 'sql', sql: (ctx: DeskContext) => string }
@@ -31,9 +31,17 @@ export interface DeskSourceRow {
 const TIER_NAME = `'T' || t.rank || ' ' || l.name`
 
 /**
+ * The membership `column` names has not resigned: against the club's few resigned memberships (a
+ * hashed list from a partial index), so a count never reads every membership of the club.
+ */
+const NOT_RESIGNED = (column: string) =>
+  `${column} NOT IN (SELECT x.id FROM memberships x WHERE x.club_id = :clubId AND x.resigned_at IS NOT NULL)`
+
+/**
  * Members' latest passed record of a course (fit tests only, or all but them) expiring by `until`: the
  * records due in the window (an index range), each kept when it is its member's latest pass of that
- * course (one index probe: by training day, then by entry).
+ * course (by training day, then by entry): one probe of the first entry of migration 0028's index,
+ * which holds passed, confirmed records in that order.
  */
 export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
   const course = fitTests === null ? '' : `AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'`
@@ -42,39 +50,36 @@ export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
          u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
          u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on, c.code AS course_code
     FROM training_records r JOIN courses c ON c.id = r.course_id
-    JOIN memberships m ON m.id = r.membership_id JOIN users u ON u.id = m.user_id
+    LEFT JOIN memberships m ON m.id = r.membership_id LEFT JOIN users u ON u.id = m.user_id
    WHERE r.club_id = :clubId AND r.result = 'pass' AND r.confirmed_at IS NOT NULL AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
      AND r.id = (SELECT n.id FROM training_records n WHERE n.membership_id = r.membership_id AND n.course_id = r.course_id AND n.result = 'pass'
-                  AND n.confirmed_at IS NOT NULL ORDER BY n.trained_to DESC, n.created_at DESC LIMIT 1)
-     AND r.retraining_required_at IS NULL AND m.resigned_at IS NULL ${course}`
+                  AND n.confirmed_at IS NOT NULL ORDER BY n.trained_to DESC, n.created_at DESC, n.id DESC LIMIT 1)
+     AND r.retraining_required_at IS NULL AND ${NOT_RESIGNED('r.membership_id')} ${course}`
 }
 
 /**
- * Club vessels in service whose proof has lapsed or runs out by the parameter `until`, by the SQL
- * mirror of the vessel standing rule. The vessel proof tallies first pick the few that may: a last
- * pass old enough for the shortest interval to end by `until` (a month is at least 28 days), a fill
- * count at the smallest limit, or a proof-ending event since the last pass; the mirror then decides
- * each from the proof tests, fills and events themselves.
+ * Club vessels in service whose proof has lapsed or runs out by the parameter `until`, read from the
+ * stored proof tally (`tallyStandingSql`: last pass, fills since, first proof-ending event) with the
+ * club's policy applied. The tally's indexes pick the few that may: per construction, a last pass no
+ * later than `until` less the interval plus three days (a month-end clamp moves a day by at most
+ * three), a fill count at the smallest limit, or a proof-ending event by today; the exact standing is
+ * then arithmetic on each row, and a count reads no other table (the joins for the names are LEFT
+ * JOINs on keys, which the planner leaves out when nothing reads them).
  */
 export function proofSql(ctx: DeskContext, until: string): string {
-  const shortestMonths = Math.min(...Object.values(ctx.policy.intervalMonths))
   const smallestLimit = Math.min(ctx.policy.fillLimit.bottle, ctx.policy.fillLimit.laminate)
-  const kinds = PROOF_INVALIDATING_EVENTS.map(k => `'${k}'`).join(', ')
+  const byTime = VESSEL_CONSTRUCTIONS.map(c => `(t.construction = '${c}' AND t.last_pass_on <= `
+    + `(CAST(${until} AS date) - make_interval(months => ${Number(ctx.policy.intervalMonths[c])}))::date + 3)`).join(' OR ')
   return `
-    SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
-           v.tag AS "vessel", v.name AS "name", u.name AS "owner", ps.valid_through::text AS "validThrough",
-           ps.fills_since_proof AS "fillsSinceProof", ps.fills_remaining AS "fillsRemaining",
-           v.tag || ' ' || v.name || ' ' || u.name AS search, CASE WHEN ps.lapsed THEN 'lapsed' ELSE 'lapsing' END AS state,
-           CASE WHEN ps.lapsed THEN NULL ELSE ps.valid_through::text END AS due_on
-      FROM vessels v ${proofStandingSql(ctx.policy, { today: ':today' })}
-      JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
-     WHERE v.club_id = :clubId AND v.state = 'in_service' AND (ps.lapsed OR ps.valid_through <= CAST(${until} AS date))
-       AND v.id IN (
-         SELECT t.vessel_id FROM vessel_proof_tallies t
-          WHERE t.club_id = :clubId AND t.last_pass_on <= CAST(${until} AS date) - ${28 * shortestMonths}
-         UNION SELECT t.vessel_id FROM vessel_proof_tallies t WHERE t.club_id = :clubId AND t.fills_since_pass >= ${smallestLimit}
-         UNION SELECT e.vessel_id FROM vessel_events e JOIN vessel_proof_tallies t ON t.vessel_id = e.vessel_id
-          WHERE e.club_id = :clubId AND e.kind IN (${kinds}) AND e.happened_on <= CAST(:today AS date) AND e.happened_on > t.last_pass_on)`
+    SELECT t.vessel_id AS id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
+           v.tag AS "vessel", v.name AS "name", u.name AS "owner", ts.valid_through::text AS "validThrough",
+           t.fills_since_pass AS "fillsSinceProof", ts.fills_remaining AS "fillsRemaining",
+           v.tag || ' ' || v.name || ' ' || u.name AS search, CASE WHEN ts.lapsed THEN 'lapsed' ELSE 'lapsing' END AS state,
+           CASE WHEN ts.lapsed THEN NULL ELSE ts.valid_through::text END AS due_on
+      FROM vessel_proof_tallies t ${tallyStandingSql(ctx.policy, { today: ':today' })}
+      LEFT JOIN vessels v ON v.id = t.vessel_id LEFT JOIN memberships m ON m.id = v.owner_membership_id LEFT JOIN users u ON u.id = m.user_id
+     WHERE t.club_id = :clubId AND t.in_service AND (ts.lapsed OR ts.valid_through <= CAST(${until} AS date))
+       AND (${byTime} OR t.fills_since_pass >= ${smallestLimit} OR t.ends_on <= CAST(:today AS date))`
 }
 
 export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
@@ -82,9 +87,9 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
     SELECT t.id, 'member' AS link_kind, t.membership_id::text AS link_id, u.name AS link_label,
            u.name AS "member", ${TIER_NAME} AS "tier", t.expires_on::text AS "expiresOn", (t.expires_on - CAST(:today AS date)) AS "daysLeft",
            u.name AS search, NULL::text AS state, t.expires_on::text AS due_on
-      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
-      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+      FROM member_tiers t LEFT JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      LEFT JOIN memberships m ON m.id = t.membership_id LEFT JOIN users u ON u.id = m.user_id
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.suspended_at IS NULL AND t.revoked_at IS NULL AND ${NOT_RESIGNED('t.membership_id')}
        AND t.expires_on BETWEEN CAST(:today AS date) AND CAST(:d90 AS date)` },
   'training-expiring': { kind: 'sql', sql: () => latestTrainingSql(false) },
   'fit-tests-expiring': { kind: 'sql', sql: () => latestTrainingSql(true) },
@@ -94,9 +99,9 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            CASE WHEN t.suspended_at IS NOT NULL THEN to_char(t.suspended_at AT TIME ZONE :tz, 'YYYY-MM-DD') ELSE (t.expires_on + 1)::text END AS "since",
            t.suspension_reason AS "reason",
            u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
-      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
-      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
-     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+      FROM member_tiers t LEFT JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      LEFT JOIN memberships m ON m.id = t.membership_id LEFT JOIN users u ON u.id = m.user_id
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND ${NOT_RESIGNED('t.membership_id')}
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))` },
   // The member's last allowed fill (one index probe each), then their tiers that were in force at it and
   // are not now, when no tier as high is current: the fill gate will refuse them at that tier. The
@@ -107,11 +112,11 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            CASE WHEN t.suspended_at IS NOT NULL THEN to_char(t.suspended_at AT TIME ZONE :tz, 'YYYY-MM-DD') ELSE (t.expires_on + 1)::text END AS "since",
            lf.held_on::text AS "lastFillOn",
            u.name AS search, CASE WHEN t.suspended_at IS NOT NULL THEN 'suspended' ELSE 'lapsed' END AS state, NULL::text AS due_on
-      FROM member_tiers t JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
-      JOIN memberships m ON m.id = t.membership_id JOIN users u ON u.id = m.user_id
+      FROM member_tiers t LEFT JOIN tier_levels l ON l.club_id = t.club_id AND l.rank = t.rank
+      LEFT JOIN memberships m ON m.id = t.membership_id LEFT JOIN users u ON u.id = m.user_id
       CROSS JOIN LATERAL (SELECT f.created_at, f.held_on FROM fills f WHERE f.membership_id = t.membership_id AND f.allowed
                            ORDER BY f.created_at DESC LIMIT 1) lf
-     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND m.resigned_at IS NULL
+     WHERE t.club_id = :clubId AND t.confirmed_at IS NOT NULL AND t.revoked_at IS NULL AND ${NOT_RESIGNED('t.membership_id')}
        AND (t.suspended_at IS NOT NULL OR t.expires_on < CAST(:today AS date))
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
        AND coalesce((SELECT max(c.rank) FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.id <> t.id
@@ -121,7 +126,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
            v.tag AS "vessel", v.name AS "name", u.name AS "owner", to_char(v.updated_at AT TIME ZONE :tz, 'YYYY-MM-DD') AS "since",
            v.tag || ' ' || v.name || ' ' || u.name AS search, v.state AS state, NULL::text AS due_on
-      FROM vessels v JOIN memberships m ON m.id = v.owner_membership_id JOIN users u ON u.id = m.user_id
+      FROM vessels v LEFT JOIN memberships m ON m.id = v.owner_membership_id LEFT JOIN users u ON u.id = m.user_id
      WHERE v.club_id = :clubId AND v.state IN ('quarantined', 'failed')` },
   'gauges': { kind: 'computed', rows: async (ctx) => {
     const stations = await useDb().query<{ id: string, name: string, gauge_name: string, calibrated_on: string, interval_months: number }>(
@@ -152,7 +157,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
            ru.name AS "reporter", (SELECT count(*)::int FROM incident_people p WHERE p.incident_id = i.id) AS "people",
            ${ctx.officer ? 'i.injury_details' : 'NULL::text'} AS "injuryDetails",
            i.place || ' ' || coalesce(v.tag, '') AS search, i.kind AS state, NULL::text AS due_on
-      FROM incidents i JOIN memberships rm ON rm.id = i.reported_by_membership_id JOIN users ru ON ru.id = rm.user_id
+      FROM incidents i LEFT JOIN memberships rm ON rm.id = i.reported_by_membership_id LEFT JOIN users ru ON ru.id = rm.user_id
       LEFT JOIN vessels v ON v.id = i.vessel_id LEFT JOIN launch_events e ON e.id = i.event_id
      WHERE i.club_id = :clubId AND i.status = 'open'` },
 }

@@ -80,10 +80,11 @@ export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQ
     // `sort` is one of the table's column keys (checked above), so it may be written into the statement.
     const order = q.sort === 'state' || q.sort === 'kind' ? 't.state' : `t."${q.sort}"`
     const found = await useDb().query<DeskSourceRow & { total: number }>(
-      `SELECT count(*) OVER ()::int AS total, t.* FROM (${source.sql(ctx)}) t WHERE ${where.join(' AND ')}
+      `SELECT ${opts.all ? '' : 'count(*) OVER ()::int AS total,'} t.* FROM (${source.sql(ctx)}) t WHERE ${where.join(' AND ')}
         ORDER BY ${order} ${q.dir === 'desc' ? 'DESC' : 'ASC'} NULLS LAST, t.id ${opts.all ? '' : 'LIMIT :limit OFFSET :offset'}`,
       { replacements: { ...ctx.replacements, state: query.state, pattern: query.q ? containsPattern(query.q) : null, limit: query.pageSize, offset: (query.page - 1) * query.pageSize }, type: QueryTypes.SELECT })
-    total = found[0]?.total ?? 0
+    // Every row (the CSV) needs no window count: the total is the rows themselves.
+    total = opts.all ? found.length : found[0]?.total ?? 0
     rows = found
   }
   return { table, today: ctx.today, columns, items: rows.map(r => toRow(table, r, columns)), page: query.page, pageSize: query.pageSize, total }
@@ -97,33 +98,56 @@ export async function deskTableCsv(actor: Actor, table: DeskTable, query: DeskQu
   return [header.join(','), ...lines].join('\r\n') + '\r\n'
 }
 
-/** The count of one table: a SQL table in one aggregate query, a computed one from its rows. */
-async function countTable(ctx: DeskContext, table: DeskTable): Promise<DeskCountDto> {
-  const info = DESK_TABLE_INFO[table]
-  const source = DESK_SOURCES[table]
-  if (source.kind === 'computed') {
-    const rows = await source.rows(ctx)
-    const within = (d: string) => rows.filter(r => r.due_on === null || r.due_on <= d).length
-    return {
-      table, total: rows.length, extra: {},
-      within: info.windowed ? { 30: within(ctx.replacements.d30 as string), 60: within(ctx.replacements.d60 as string), 90: rows.length } : null,
-    }
+/** The count of a computed table, from its rows. */
+async function countComputed(ctx: DeskContext, table: DeskTable, rows: (ctx: DeskContext) => Promise<DeskSourceRow[]>): Promise<DeskCountDto> {
+  const all = await rows(ctx)
+  const within = (d: string) => all.filter(r => r.due_on === null || r.due_on <= d).length
+  return {
+    table, total: all.length, extra: {},
+    within: DESK_TABLE_INFO[table].windowed ? { 30: within(ctx.replacements.d30 as string), 60: within(ctx.replacements.d60 as string), 90: all.length } : null,
   }
-  const extras = table === 'event-fills' ? ', coalesce(sum(t."refused"), 0)::int AS refused, coalesce(sum(t."supervised"), 0)::int AS supervised' : ''
-  const [row] = await useDb().query<{ total: number, w30: number, w60: number, refused?: number, supervised?: number }>(
-    `SELECT count(*)::int AS total,
-            count(*) FILTER (WHERE t.due_on IS NULL OR t.due_on <= :d30)::int AS w30,
-            count(*) FILTER (WHERE t.due_on IS NULL OR t.due_on <= :d60)::int AS w60 ${extras}
-       FROM (${source.sql(ctx)}) t`,
-    { replacements: ctx.replacements, type: QueryTypes.SELECT })
-  const extra: Record<string, number> = {}
-  if (row?.refused !== undefined) extra.refused = row.refused
-  if (row?.supervised !== undefined) extra.supervised = row.supervised
-  return { table, total: row?.total ?? 0, within: info.windowed ? { 30: row?.w30 ?? 0, 60: row?.w60 ?? 0, 90: row?.total ?? 0 } : null, extra }
 }
 
-/** The desk's counts: one query per table (the proof table through the vessel standing service). */
+/**
+ * The counts of the SQL tables in one statement: one aggregate per table (its own SELECT, as the
+ * table's page runs it), joined by UNION ALL, so the desk pays one round trip for all of them.
+ */
+async function countSqlTables(ctx: DeskContext, tables: DeskTable[]): Promise<DeskCountDto[]> {
+  if (!tables.length) return []
+  const parts = tables.map((table, i) => {
+    const source = DESK_SOURCES[table]
+    if (source.kind !== 'sql') throw new Error(`${table} is not a SQL table`)
+    const extras = table === 'event-fills'
+      ? 'coalesce(sum(t."refused"), 0)::int AS refused, coalesce(sum(t."supervised"), 0)::int AS supervised'
+      : 'NULL::int AS refused, NULL::int AS supervised'
+    return `SELECT ${i} AS n, count(*)::int AS total,
+            count(*) FILTER (WHERE t.due_on IS NULL OR t.due_on <= :d30)::int AS w30,
+            count(*) FILTER (WHERE t.due_on IS NULL OR t.due_on <= :d60)::int AS w60, ${extras}
+       FROM (${source.sql(ctx)}) t`
+  })
+  const rows = await useDb().query<{ n: number, total: number, w30: number, w60: number, refused: number | null, supervised: number | null }>(
+    parts.join('\n UNION ALL\n'), { replacements: ctx.replacements, type: QueryTypes.SELECT })
+  const byTable = new Map(rows.map(r => [tables[r.n]!, r]))
+  return tables.map((table) => {
+    const row = byTable.get(table)
+    const extra: Record<string, number> = {}
+    if (row?.refused != null) extra.refused = row.refused
+    if (row?.supervised != null) extra.supervised = row.supervised
+    return { table, total: row?.total ?? 0, within: DESK_TABLE_INFO[table].windowed ? { 30: row?.w30 ?? 0, 60: row?.w60 ?? 0, 90: row?.total ?? 0 } : null, extra }
+  })
+}
+
+/** The desk's counts: the SQL tables in one statement (one aggregate each), the computed ones from their rows. */
 export async function deskCounts(actor: Actor): Promise<DeskCountsDto> {
   const ctx = await deskContext(actor)
-  return { today: ctx.today, counts: await Promise.all(DESK_TABLES.map(t => countTable(ctx, t))) }
+  const sqlTables = DESK_TABLES.filter(t => DESK_SOURCES[t].kind === 'sql')
+  const [counted, computed] = await Promise.all([
+    countSqlTables(ctx, sqlTables),
+    Promise.all(DESK_TABLES.flatMap((t) => {
+      const source = DESK_SOURCES[t]
+      return source.kind === 'computed' ? [countComputed(ctx, t, source.rows)] : []
+    })),
+  ])
+  const all = new Map([...counted, ...computed].map(c => [c.table, c]))
+  return { today: ctx.today, counts: DESK_TABLES.map(t => all.get(t)!) }
 }
