@@ -73,6 +73,8 @@ export default defineNuxtConfig({
     // how often (s) a server looks for an import whose server stopped (0 = only at boot and on request).
     importLeaseSeconds: 60,
     importSweepSeconds: 30,
+    // Sent to the browser: the site's public address again (the same NUXT_PUBLIC_URL), for og:url.
+    public: { url: '' },
   },
   compatibilityDate: '2025-07-15',
   nitro: {

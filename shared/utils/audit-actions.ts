@@ -74,6 +74,7 @@ export const AUDIT_ACTIONS = [
   'club_data.import',
   'member.erase',
   'audit.personal_data_scrubbed',
+  'club.front_door',
 ] as const
 export type AuditAction = typeof AUDIT_ACTIONS[number]
 
@@ -116,6 +117,7 @@ export const AUDIT_ACTION_WORDS: Record<AuditAction, Words> = {
   'dues.refund': { label: 'Refunded a payment', meaning: 'An admin refunded the latest dues payment in full; paid-through returned to the date that payment replaced.' },
   'dues.member_plan': { label: 'Changed a member\'s dues plan', meaning: 'An admin chose the plan a member renews on.' },
   'dues.plan_edit': { label: 'Changed a dues plan', meaning: 'An admin changed a plan\'s name, price, currency or period; payments already made keep theirs.' },
+  'club.front_door': { label: 'Changed the public page', meaning: 'An admin changed the club\'s name, the public page\'s texts or which of its sections visitors see.' },
   'policy.tiers': { label: 'Changed the tier table', meaning: 'The safety officer changed a pressure tier\'s name, fill cap, prerequisites, validity or renewal fills, or the junior cap.' },
   'tier.grant': { label: 'Signed off a pressure tier', meaning: 'An assessor granted a member a pressure tier after the server found every prerequisite met.' },
   'tier.renew': { label: 'Renewed a pressure tier', meaning: 'An assessor re-signed a member\'s tier after enough fills within its validity; the validity restarted.' },

@@ -35,6 +35,7 @@ export const CAPABILITIES = {
   'audit.read': ['safety_officer', 'admin'],
   'evidence.export': ['safety_officer', 'admin'],
   'incidents.review': ['safety_officer'],
+  'club.edit': ['admin'],
 } as const satisfies Record<string, readonly Role[]>
 
 export type Capability = keyof typeof CAPABILITIES

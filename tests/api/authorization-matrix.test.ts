@@ -155,6 +155,9 @@ const MATRIX: Record<string, Row> = {
   'PUT /api/dues/members/[id]/plan': only(400, 'admin'),
   'GET /api/me/fill-pass': signedIn(200), // every member's own pass (issued when none is live)
   'POST /api/me/fill-pass': signedIn(400), // not confirmed: the pass is not replaced
+  'GET /api/front-door': open(200), // the public page: the club's texts, prices and dates, nobody's name
+  'GET /api/front-door/settings': only(200, 'admin'),
+  'PUT /api/front-door/settings': only(400, 'admin'),
   'GET /api/verify/[token]': open(404), // no session, only the pass's signed token; an unknown one
   'GET /api/fill-passes/[token]/member': only(404, 'instructor', 'safety'), // fills.record_any; an unknown token
   'GET /api/events/[id]/fill-desk': signedIn(404), // [id] is a membership id here: no such event

@@ -24,6 +24,7 @@ const BRIEF: Record<Capability, string[]> = {
   'audit.read': ['safety_officer', 'admin'],
   'evidence.export': ['safety_officer', 'admin'],
   'incidents.review': ['safety_officer'],
+  'club.edit': ['admin'],
 }
 
 describe('the capability table', () => {
