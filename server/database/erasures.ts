@@ -39,8 +39,9 @@ const select = <T extends object>(db: Sequelize, sql: string, target: ErasureTar
 
 // Tables the free-text step leaves alone: the append-only safety records and the audit trail (the
 // application may not change them; the app writes ids there, never names: decision 0046), the
-// migrations' bookkeeping, the erasure list, and the tables the steps above change by id.
-const NOT_SEARCHED_TABLES = new Set([...APPEND_ONLY_TABLES, ...MIGRATOR_ONLY_TABLES, 'erasures', 'memberships', 'users'])
+// migrations' bookkeeping, the erasure list, the tables the steps above change by id, and the clubs'
+// snapshot signing keys (no person's data; base64 that happened to contain a name must not be changed).
+const NOT_SEARCHED_TABLES = new Set([...APPEND_ONLY_TABLES, ...MIGRATOR_ONLY_TABLES, 'erasures', 'memberships', 'users', 'club_signing_keys'])
 // Copies of a name kept by id: changed for the erased member only, so a namesake keeps theirs. And
 // the proof tally's copy of a vessel's construction (a word of a fixed list, kept by trigger).
 const NOT_SEARCHED_COLUMNS = new Set(['training_records.trainee_name', 'training_records.trainer_name', 'waiver_acceptances.typed_name',

@@ -47,6 +47,8 @@ export const REQUEST_RULES: Record<string, Partial<RequestRule>> = {
   'POST /api/tiers/signoffs/[id]/evidence': { maxBytes: 10 * 1024 * 1024 + 64 * 1024, mediaTypes: ['multipart/form-data'], streamed: true },
   // The payment service's signed events: from its own servers, JSON, read raw for the signature check.
   'POST /api/dues/webhook': { crossSite: true },
+  // A device's queue of fills recorded offline: up to 200 items of under 1 KB each.
+  'POST /api/events/[id]/fill-sync': { maxBytes: 200 * 1024 },
 }
 
 function matches(pattern: string, path: string): boolean {

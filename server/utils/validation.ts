@@ -1,6 +1,6 @@
 import type { H3Event } from 'h3'
 import type { ZodType, ZodTypeDef } from 'zod'
-import { DEFAULT_MAX_BODY_BYTES } from './request-rules'
+import { DEFAULT_MAX_BODY_BYTES, requestRuleFor } from './request-rules'
 
 type Schema<T> = ZodType<T, ZodTypeDef, unknown>
 
@@ -62,19 +62,21 @@ function refuseBadShape(value: unknown): void {
   if (controlAt) badRequest('Text may not contain control characters', controlAt)
 }
 
-function tooLarge(): never {
-  throw createError({ statusCode: 413, statusMessage: 'Payload Too Large', message: `The body is larger than ${MAX_BODY_BYTES / 1024} KB` })
+function tooLarge(maxBytes: number): never {
+  throw createError({ statusCode: 413, statusMessage: 'Payload Too Large', message: `The body is larger than ${maxBytes / 1024} KB` })
 }
 
 /**
- * Reads the JSON body (at most MAX_BODY_BYTES, 413 beyond) and parses it with `schema`; 400 with
- * field messages when it does not fit, when it is not a JSON object, or when it holds control characters.
+ * Reads the JSON body (at most the route's limit in request-rules.ts, MAX_BODY_BYTES unless it names
+ * another; 413 beyond) and parses it with `schema`; 400 with field messages when it does not fit, when
+ * it is not a JSON object, or when it holds control characters.
  */
 export async function validBody<T>(event: H3Event, schema: Schema<T>): Promise<T> {
-  if (Number(getRequestHeader(event, 'content-length') ?? 0) > MAX_BODY_BYTES) tooLarge()
+  const maxBytes = requestRuleFor(event.method, event.path.split('?')[0]!).maxBytes
+  if (Number(getRequestHeader(event, 'content-length') ?? 0) > maxBytes) tooLarge(maxBytes)
   // The request guard (server/middleware) has already read the body, bounded while it streamed.
   const text = await readRawBody(event, 'utf8')
-  if (text && Buffer.byteLength(text) > MAX_BODY_BYTES) tooLarge()
+  if (text && Buffer.byteLength(text) > maxBytes) tooLarge(maxBytes)
   let raw: unknown = {}
   if (text?.trim()) {
     try {

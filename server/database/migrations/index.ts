@@ -24,6 +24,7 @@ import * as m0025 from './0025-erasures'
 import * as m0027 from './0027-desk-tallies'
 import * as m0028 from './0028-desk-proof-standing'
 import * as m0029 from './0029-club-front-door'
+import * as m0030 from './0030-fill-snapshots'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -51,4 +52,5 @@ export const migrations = [
   { name: '0027-desk-tallies', ...m0027 },
   { name: '0028-desk-proof-standing', ...m0028 },
   { name: '0029-club-front-door', ...m0029 },
+  { name: '0030-fill-snapshots', ...m0030 },
 ]
