@@ -63,7 +63,7 @@ export function snapshotFacts(s: FillSnapshot, q: SnapshotFillQuery): { facts: F
   const callerId = q.callerId ?? s.issuedByMembershipId
   const staff = s.staff.find(st => st.membershipId === callerId)
   const callerRank: TierRank | null = staff?.validRank ?? snapshotMember(s, callerId)?.validRank ?? null
-  const courses: FillGateFacts['courses'] = {}
+  const courses: Record<string, { name: string, current: boolean }> = {}
   for (const c of s.courses) courses[c.code] = { name: c.name, current: member.courses[c.code] === true }
   return {
     facts: {
