@@ -27,7 +27,8 @@ export function filesNeeded(manifest: Record<string, ManifestChunk>, roots: stri
     files.add(chunk.file)
     for (const f of [...chunk.css ?? [], ...chunk.assets ?? []]) files.add(f)
     for (const k of chunk.imports ?? []) visit(k, followDynamic)
-    if (followDynamic) for (const k of chunk.dynamicImports ?? []) visit(k, true)
+    // The entry's dynamic imports are every page: followed only from the fill page's own chunks.
+    if (followDynamic && !chunk.isEntry) for (const k of chunk.dynamicImports ?? []) visit(k, true)
   }
   for (const r of roots) visit(r, lazy.includes(r))
   return files
