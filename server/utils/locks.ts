@@ -10,6 +10,7 @@ import { useDb } from './db'
 //   1. memberships, in id order when there are several      lockMemberships
 //   2. the account's users row                               lockUser
 //   3. the club's vessel counter, then a vessel               takeVesselNumber, lockVessel
+//      or every vessel of the club, in id order              lockClubVessels (fill snapshots)
 //   4. training session, or booking                          lockTrainingSession, lockBooking
 //      or launch event                                      lockLaunchEvent
 //      or incident                                          lockIncident
@@ -64,6 +65,16 @@ export async function takeVesselNumber(clubId: string, transaction: Transaction)
  */
 export async function lockVessel(clubId: string, id: string, transaction: Transaction): Promise<Vessel | null> {
   return Vessel.findOne({ where: { id, clubId }, transaction, lock: transaction.LOCK.UPDATE })
+}
+
+/**
+ * Locks every vessel of club `clubId` that may still be filled (not retired or failed) FOR UPDATE, in id
+ * order, inside `transaction` (step 3, in place of one vessel): issuing a fill snapshot reserves fills of
+ * all of them at once, so no fill or other snapshot counts them meanwhile.
+ */
+export async function lockClubVessels(clubId: string, transaction: Transaction): Promise<void> {
+  await useDb().query(`SELECT id FROM vessels WHERE club_id = :clubId AND state NOT IN ('retired', 'failed') ORDER BY id FOR UPDATE`,
+    { replacements: { clubId }, type: QueryTypes.SELECT, transaction })
 }
 
 /**

@@ -191,6 +191,10 @@ const MATRIX: Record<string, Row> = {
   'GET /api/events/[id]/fills/export': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/events/[id]/roster': only(404, 'instructor', 'safety', 'admin'),
   'GET /api/me/fills': signedIn(200), // the member's own
+  'GET /api/fill-snapshots/key': signedIn(200), // the club's public key: any member
+  'POST /api/events/[id]/fill-snapshots': only(400, 'instructor', 'safety'), // fills.record_any; the body is checked first
+  'DELETE /api/events/[id]/fill-snapshots/[deviceId]': only(404, 'instructor', 'safety'), // fills.record_any; no such event
+  'POST /api/events/[id]/fill-sync': signedIn(400), // staff or the device's issuer: the body is checked first
   'GET /api/me/data-export': signedIn(200), // the member's own data, a ZIP
   'GET /api/incidents': signedIn(200), // officers all, anyone else their own reports
   'POST /api/incidents': signedIn(400), // any signed-in member reports
@@ -215,6 +219,7 @@ const PARAM_VALUES: Record<string, () => string> = {
   token: () => 'A'.repeat(43),
   rank: () => '2',
   table: () => 'tiers-expiring',
+  deviceId: () => subjectId,
 }
 const paramValues = (pattern: string) => Object.fromEntries(routeParams(pattern).map((name) => {
   const value = PARAM_VALUES[name]

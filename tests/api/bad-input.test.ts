@@ -30,6 +30,7 @@ const NO_BODY: Record<string, string> = {
   'DELETE /api/me/calendar-feed': 'revokes the signed-in member\'s calendar link; takes no body',
   'POST /api/events/[id]/registration': 'registers the caller for the event in the path; takes no body',
   'DELETE /api/events/[id]/registration': 'withdraws the caller from the event in the path; takes no body',
+  'DELETE /api/events/[id]/fill-snapshots/[deviceId]': 'releases the device in the path; takes no body',
   'POST /api/dues/webhook': 'the payment service\'s event: judged by its signature over the raw body, not a schema (tests/api/dues/payments.test.ts sends it bad bodies)',
 }
 

@@ -22,6 +22,7 @@ import * as m0023 from './0023-imported-records'
 import * as m0024 from './0024-roster-imports'
 import * as m0025 from './0025-erasures'
 import * as m0027 from './0027-desk-tallies'
+import * as m0030 from './0030-fill-snapshots'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -47,4 +48,5 @@ export const migrations = [
   { name: '0024-roster-imports', ...m0024 },
   { name: '0025-erasures', ...m0025 },
   { name: '0027-desk-tallies', ...m0027 },
+  { name: '0030-fill-snapshots', ...m0030 },
 ]

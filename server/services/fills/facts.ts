@@ -1,4 +1,5 @@
 import { QueryTypes, type Transaction } from 'sequelize'
+import { heldFillsSql } from './reservations'
 import { statusCaseSql } from '../members/status-sql'
 import { POLICY_COLUMNS_SQL, deriveProofStanding, toPolicyDto, type PolicyRow } from '../vessels'
 import type { VesselPolicyDto } from '#shared/types/proof-tests'
@@ -55,6 +56,10 @@ export interface FillSubject {
   eventId: string
   stationId: string
   callerId: string
+  /** Reservations of events held on or after this day still hold fills (default `today`). */
+  holdsFrom?: string
+  /** The device whose own reservation is not counted (a sync from it), else none. */
+  deviceId?: string | null
 }
 
 /** The facts gathered for one fill, before the request's own figures are added. */
@@ -81,8 +86,8 @@ export interface GatheredFillFacts {
  * member (status by the SQL mirror of the status rule, the current waiver, birth date, consent), the
  * tiers the member and the caller hold, the club's tier table and vessel policy, the member's latest
  * passing record of each course, the vessel with its last passed proof, the proof-ending events after
- * it and the fills since it, the event, the station (and whether the event uses it) and whether the
- * caller is on the event's staff. Each lookup is by key or a short index range.
+ * it and the fills since it (plus those devices still hold: see reservations.ts), the event, the
+ * station (and whether the event uses it) and whether the caller is on the event's staff. Each lookup is by key or a short index range.
  */
 const FACTS_SQL = `
 SELECT
@@ -103,7 +108,8 @@ SELECT
   lp.tested_on::text AS tested_on, lp.rated_fill_bar,
   (SELECT json_agg(json_build_object('kind', e.kind, 'on', e.happened_on::text) ORDER BY e.happened_on)
      FROM vessel_events e WHERE e.vessel_id = ves.id AND e.kind IN (:kinds) AND e.happened_on > lp.tested_on) AS proof_events,
-  (SELECT count(*)::int FROM fills f WHERE f.vessel_id = ves.id AND f.allowed AND f.held_on >= lp.tested_on) AS fills_since_proof,
+  (SELECT count(*)::int FROM fills f WHERE f.vessel_id = ves.id AND f.allowed AND f.held_on >= lp.tested_on)
+    + ${heldFillsSql('ves.id')} AS fills_since_proof,
   ev.held_on::text AS held_on, ev.pressure_cap_bar, ev.competition, ev.cancelled_at IS NOT NULL AS cancelled,
   st.lowest_part_rating_bar AS rating_bar, st.gauge_calibrated_on::text AS gauge_calibrated_on, st.gauge_interval_months,
   (st.retired_at IS NULL AND EXISTS (SELECT 1 FROM launch_event_stations les WHERE les.event_id = ev.id AND les.station_id = st.id)) AS station_at_event,
@@ -127,7 +133,7 @@ LEFT JOIN vessel_policies p ON p.club_id = :clubId`
 /** The facts of one fill (see FACTS_SQL), read inside `transaction` when given. */
 export async function gatherFillFacts(s: FillSubject, transaction?: Transaction): Promise<GatheredFillFacts> {
   const [r] = await useDb().query<FillFactsRow>(FACTS_SQL, {
-    replacements: { ...s, kinds: [...PROOF_INVALIDATING_EVENTS] }, type: QueryTypes.SELECT, transaction,
+    replacements: { ...s, holdsFrom: s.holdsFrom ?? s.today, deviceId: s.deviceId ?? null, kinds: [...PROOF_INVALIDATING_EVENTS] }, type: QueryTypes.SELECT, transaction,
   })
   if (!r) throw new Error('the fill facts query returned no row')
   const held = (r.held_tiers ?? []).map(t => ({ ...t, expiresOn: t.expires_on }))

@@ -2,3 +2,6 @@
 export * from './facts'
 export * from './gate'
 export * from './desk'
+export * from './reservations'
+export * from './snapshots'
+export * from './sync'

@@ -314,6 +314,19 @@ export const NOTICE_KINDS = {
       PRESSURE_CAUTION,
     ], { label: 'See the incident', url: `${v.baseUrl}/incidents/${v.incidentId ?? ''}` }),
   },
+  // Safety: a fill a device allowed offline that the server, on the same facts, refuses.
+  offline_fill_flagged: {
+    optional: false,
+    label: 'Offline fill flagged',
+    description: 'Sent to every safety officer of the club when a fill recorded without a network turns out to break a rule.',
+    render: v => notice(`Fill flagged: vessel ${v.vesselTag ?? ''} at ${v.eventSite ?? ''} on ${longDate(v.eventDate)}`, [
+      `Hello ${v.memberName},`,
+      `A fill of vessel ${v.vesselTag ?? ''} at the launch event at ${v.eventSite ?? ''} on ${longDate(v.eventDate)} was recorded on a device without a network, and the server, judging it on the facts at the moment it was recorded, would have refused it.`,
+      `What the server found: ${v.reasonsText ?? ''}`,
+      'The fill is kept in the fill log as it happened and counts toward the vessel\'s fill limit, never toward a tier. Look into it on the event\'s page.',
+      PRESSURE_CAUTION,
+    ], { label: 'See the event', url: `${v.baseUrl}/events/${v.eventId ?? ''}` }),
+  },
 } satisfies Record<string, NoticeKind>
 
 export type NoticeKindName = keyof typeof NOTICE_KINDS

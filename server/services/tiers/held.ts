@@ -55,14 +55,15 @@ export async function openIncidentCount(membershipId: string, transaction?: Tran
 /**
  * What a grant of `level` to member `membershipId` of club `clubId` is decided on, on `today`: their
  * courses (training's one validity rule), the tier below, fills logged as allowed with them as the
- * member, supervised fills (above the level's pressure when it names one), and whether a vessel of
+ * member, supervised fills (above the level's pressure when it names one; a fill flagged after an offline
+ * sync counts for neither: it broke a rule), and whether a vessel of
  * theirs has passed a witnessed proof test. One query for the counts.
  */
 export async function grantFacts(clubId: string, membershipId: string, level: TierLevel, juniorCapRank: number, today: string, transaction?: Transaction): Promise<GrantFacts> {
   const [counts] = await useDb().query<{ birth_date: string | null, logged: number, supervised: number, proof: boolean }>(
     `SELECT m.birth_date::text AS birth_date,
-       (SELECT count(*)::int FROM fills f WHERE f.membership_id = m.id AND f.allowed) AS logged,
-       (SELECT count(*)::int FROM fills f WHERE f.membership_id = m.id AND f.allowed AND f.supervisor_membership_id IS NOT NULL
+       (SELECT count(*)::int FROM fills f WHERE f.membership_id = m.id AND f.allowed AND f.flagged_reasons IS NULL) AS logged,
+       (SELECT count(*)::int FROM fills f WHERE f.membership_id = m.id AND f.allowed AND f.flagged_reasons IS NULL AND f.supervisor_membership_id IS NOT NULL
           AND (:above::float8 IS NULL OR f.pressure_bar > :above::float8)) AS supervised,
        EXISTS (SELECT 1 FROM proof_tests p JOIN vessels v ON v.id = p.vessel_id
                 WHERE v.owner_membership_id = m.id AND p.result = 'pass') AS proof

@@ -111,7 +111,7 @@ export async function renewTier(actor: Actor, membershipId: string, rank: TierRa
     if (state === 'revoked') refuse({ code: 'TIER_REVOKED', message: `${tierCode(rank)} was revoked: only a new grant restores it.` })
     const level = (await loadTierLevel(clubId, rank, transaction))!
     const [fills] = await useDb().query<{ n: number }>(
-      `SELECT count(*)::int AS n FROM fills WHERE membership_id = :membershipId AND allowed AND held_on BETWEEN :from AND :today`,
+      `SELECT count(*)::int AS n FROM fills WHERE membership_id = :membershipId AND allowed AND flagged_reasons IS NULL AND held_on BETWEEN :from AND :today`,
       { replacements: { membershipId, from: held.signed_on, today }, type: QueryTypes.SELECT, transaction })
     const gaps = renewalGaps({ level, fillsWithinValidity: fills?.n ?? 0, openIncidents: await openIncidentCount(membershipId, transaction) })
     if (gaps.length) refuse(gaps)
