@@ -47,8 +47,11 @@ const deviceQueue = (page: Page) => page.evaluate(() => new Promise<unknown[]>((
   }
 }))
 
-/** Rewrites the held snapshot of `eventId` with `edit` applied to its JSON (the signature left as it was); returns the original. */
-const editHeldSnapshot = (page: Page, eventId: string, edit: [string, string] | null, restore?: string) => page.evaluate(([id, change, original]) => new Promise<string>((resolve, reject) => {
+/**
+ * Changes one digit of the held snapshot of `eventId` (the first of the event's pressure cap; the signature
+ * left as it was), or puts `restore` back; returns the bytes it held before (base64).
+ */
+const editHeldSnapshot = (page: Page, eventId: string, restore?: string) => page.evaluate(([id, original]) => new Promise<string>((resolve, reject) => {
   const req = indexedDB.open('hoopwise-fill')
   req.onerror = () => reject(req.error)
   req.onsuccess = () => {
@@ -58,15 +61,16 @@ const editHeldSnapshot = (page: Page, eventId: string, edit: [string, string] | 
       const held = get.result
       const before = held.snapshot as string
       if (original) held.snapshot = original
-      else if (change) {
-        const bytes = Uint8Array.from(atob(before), c => c.charCodeAt(0))
-        const json = new TextDecoder().decode(bytes).replace(change[0], change[1])
-        held.snapshot = btoa(String.fromCharCode(...new TextEncoder().encode(json)))
+      else {
+        const json = new TextDecoder().decode(Uint8Array.from(atob(before), c => c.charCodeAt(0)))
+        const changed = json.replace(/("pressureCapBar":)(\d)/, (_, key: string, digit: string) => `${key}${(Number(digit) + 1) % 10}`)
+        if (changed === json) reject(new Error('no digit to change'))
+        held.snapshot = btoa(String.fromCharCode(...new TextEncoder().encode(changed)))
       }
       store.put(held).onsuccess = () => resolve(before)
     }
   }
-}), [eventId, edit, restore ?? null] as const)
+}), [eventId, restore ?? null] as const)
 
 /** Records one fill on the offline form and waits until the queue holds `queued` items. */
 async function recordOffline(page: Page, o: { memberId: string, tag: string, stationName: string, pressureBar: string, queued: number }) {
@@ -121,20 +125,33 @@ describe('the fill page at a field without a signal', () => {
     await page.getByTestId('fill-get-ready').click()
     await expect.poll(() => page.getByTestId('fill-ready-state').textContent()).toMatch(/holds the event's facts as of \d\d:\d\d/)
 
+    // What the worker keeps: no page with personal data; the shell holds nobody's name.
+    const kept = await page.evaluate(async () => {
+      const names = (await caches.keys()).filter(n => n.startsWith('hoopwise-fill-'))
+      const cache = await caches.open(names[0]!)
+      const urls = (await cache.keys()).map(r => new URL(r.url).pathname)
+      return { names, urls, shell: await (await cache.match('/events/_/fill'))!.text() }
+    })
+    expect(kept.names).toHaveLength(1)
+    expect(kept.urls.filter(u => !/^\/(_nuxt\/|icons\/|favicon\.svg$|manifest\.webmanifest$|events\/_\/fill$|api\/fill-snapshots\/key$)/.test(u))).toEqual([])
+    expect(kept.shell).toContain('nonce=')
+    for (const name of [staff.name, member.name, vessel.tag]) expect(kept.shell).not.toContain(name)
+
     // The server goes away; the page comes back from the worker, decides from the signed facts.
     await server!.stop()
     server = undefined
     await open(page, fillPath)
-    expect(await page.getByTestId('fill-offline-banner').textContent()).toMatch(/Offline — facts as of \d\d:\d\d/)
+    await expect.poll(async () => (await page.getByTestId('fill-offline-banner').textContent())?.replace(/\s+/g, ' ')).toMatch(/Offline — facts as of \d\d:\d\d/)
     expect(await page.getByTestId('fill-cautions').isVisible()).toBe(true)
 
     // One digit changed in the held facts: refused, and said why; put back, it decides again.
-    const original = await editHeldSnapshot(page, eventId, ['"pressureCapBar":25', '"pressureCapBar":35'])
+    const original = await editHeldSnapshot(page, eventId)
     await open(page, fillPath)
-    expect(await page.getByTestId('fill-offline-refusal').getAttribute('data-refusal')).toBe('signature')
+    await expect.poll(() => page.getByTestId('fill-offline-refusal').getAttribute('data-refusal')).toBe('signature')
     expect(await page.getByTestId('fill-offline-form').count()).toBe(0)
-    await editHeldSnapshot(page, eventId, null, original)
+    await editHeldSnapshot(page, eventId, original)
     await open(page, fillPath)
+    await page.getByTestId('fill-offline-form').waitFor()
 
     for (let i = 1; i <= 3; i++) {
       await recordOffline(page, { memberId: member.memberId, tag: vessel.tag, stationName: station.name, pressureBar: '8', queued: i })
