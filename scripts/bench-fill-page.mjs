@@ -37,6 +37,10 @@ try {
       bytes: sizes.responseBodySize,
     }
   }))
+  // A script asked twice (a preload, then the import) is transferred once; the second answer reports no size.
+  const once = new Map()
+  for (const r of rows) if (!once.has(r.url) || once.get(r.url).bytes < r.bytes) once.set(r.url, { ...r, bytes: Math.max(0, r.bytes) })
+  rows.splice(0, rows.length, ...once.values())
   const scripts = rows.filter(r => r.script)
   const js = scripts.reduce((s, r) => s + r.bytes, 0)
   const all = rows.reduce((s, r) => s + r.bytes, 0)
