@@ -52,6 +52,8 @@ export interface LaunchEventDto extends LaunchEventListItemDto {
   staff: EventPersonDto[]
   createdByName: string | null
   today: string
+  /** Fills recorded offline that the server, on the facts at that moment, would have refused: for the event's staff and safety officers, else null. */
+  flaggedFills: FlaggedFillDto[] | null
   /** What the signed-in member may do here now (the server's own rules). */
   mine: {
     onStaff: boolean
@@ -120,4 +122,20 @@ export interface LaunchRosterDto {
   /** The course every fill needs current (its name as the club calls it). */
   courseName: string
   today: string
+}
+
+/**
+ * A fill a device allowed without a network that the server, judging it as of the moment it was
+ * recorded, would have refused: kept as what happened, with the server's reasons.
+ */
+export interface FlaggedFillDto {
+  id: string
+  /** When the device recorded it (ISO instant). */
+  recordedAt: string
+  member: EventPersonDto
+  vesselTag: string
+  stationName: string
+  pressureBar: number
+  recordedByName: string
+  reasons: FillReason[]
 }

@@ -14,7 +14,7 @@ export function base64Bytes(b64: string): Uint8Array<ArrayBuffer> | null {
   catch {
     return null
   }
-  const bytes = new Uint8Array(new ArrayBuffer(binary.length))
+  const bytes = new Uint8Array(binary.length)
   for (let i = 0; i < binary.length; i++) bytes[i] = binary.charCodeAt(i)
   return bytes
 }

@@ -5,7 +5,8 @@ import { recordAudit } from '../audit'
 import { clubBaseUrl, clubToday } from '../clubs'
 import { enqueueNotice, kickNoticeQueue, type NoticeKindName } from '../notices'
 import { enteredBar, type LaunchEventInput, type LaunchEventListQuery } from '#shared/schemas/events'
-import type { EventPersonDto, LaunchEventDto, LaunchEventListItemDto } from '#shared/types/events'
+import type { EventPersonDto, FlaggedFillDto, LaunchEventDto, LaunchEventListItemDto } from '#shared/types/events'
+import type { FillReason } from '#shared/utils/fill-reasons'
 import type { Paged } from '#shared/types/common'
 import { eventChangeProblem, registrationProblem, walkInProblem } from '#shared/utils/event-rules'
 import { fillStationDto, loadFillStations } from './fill-stations'
@@ -65,6 +66,23 @@ export async function listLaunchEvents(actor: Actor, query: LaunchEventListQuery
   return { items: rows.map(listItem), page: query.page, pageSize: query.pageSize, total }
 }
 
+/** The fills of event `id` flagged after an offline sync, in the order the devices recorded them. */
+async function flaggedFills(id: string, transaction?: Transaction): Promise<FlaggedFillDto[]> {
+  const rows = await useDb().query<{ id: string, recorded_at: Date, member_id: string, member_name: string, vessel_tag: string, station_name: string, pressure_bar: number, recorded_by_name: string, reasons: FillReason[] }>(
+    `SELECT f.id, f.recorded_offline_at AS recorded_at, f.membership_id AS member_id, u.name AS member_name, v.tag AS vessel_tag,
+            st.name AS station_name, f.pressure_bar, ru.name AS recorded_by_name, f.flagged_reasons AS reasons
+       FROM fills f JOIN memberships m ON m.id = f.membership_id JOIN users u ON u.id = m.user_id
+       JOIN vessels v ON v.id = f.vessel_id JOIN fill_stations st ON st.id = f.station_id
+       JOIN memberships rm ON rm.id = f.recorded_by_membership_id JOIN users ru ON ru.id = rm.user_id
+      WHERE f.event_id = :id AND f.flagged_reasons IS NOT NULL
+      ORDER BY f.recorded_offline_at, f.id`,
+    { replacements: { id }, type: QueryTypes.SELECT, transaction })
+  return rows.map(r => ({
+    id: r.id, recordedAt: new Date(r.recorded_at).toISOString(), member: { id: r.member_id, name: r.member_name }, vesselTag: r.vessel_tag,
+    stationName: r.station_name, pressureBar: r.pressure_bar, recordedByName: r.recorded_by_name, reasons: r.reasons,
+  }))
+}
+
 /** Event `id` of the actor's club with its stations and staff as its page shows them, or null. */
 export async function launchEventDetail(actor: Actor, id: string, now = new Date(), transaction?: Transaction): Promise<LaunchEventDto | null> {
   const clubId = actor.club.id
@@ -79,10 +97,12 @@ export async function launchEventDetail(actor: Actor, id: string, now = new Date
     `SELECT m.id, u.name FROM launch_event_staff s JOIN memberships m ON m.id = s.membership_id JOIN users u ON u.id = m.user_id
       WHERE s.event_id = :id ORDER BY u.name, m.id`, { replacements: { id }, type: QueryTypes.SELECT, transaction })
   const facts = { heldOn: row.held_on, cancelled: row.cancelled_at !== null }
+  const onStaff = staff.some(s => s.id === actor.membership.id)
   return {
     ...listItem(row), notes: row.notes, cancelReason: row.cancel_reason, stations, staff, createdByName: row.created_by_name, today,
+    flaggedFills: onStaff || actor.roles.includes('safety_officer') ? await flaggedFills(id, transaction) : null,
     mine: {
-      onStaff: staff.some(s => s.id === actor.membership.id),
+      onStaff,
       registrationProblem: registrationProblem(facts, today),
       walkInProblem: walkInProblem(facts, today),
     },
