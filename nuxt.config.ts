@@ -1,11 +1,12 @@
 // Nuxt configuration: root layout (no app/ folder), Tailwind, Pinia, sealed-cookie sessions.
 import { SCRYPT_OPTIONS } from './server/services/accounts/password-hashing'
+import { fillPageManifestTransform, rememberClientManifest } from './service-worker/precache'
 
 /** A quoted keyword of a content security policy: q('self') → "'self'". */
 const q = (keyword: string) => `'${keyword}'`
 
 export default defineNuxtConfig({
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', 'nuxt-security'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', 'nuxt-auth-utils', '@nuxt/eslint', 'nuxt-security', '@vite-pwa/nuxt'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -76,6 +77,9 @@ export default defineNuxtConfig({
     // Sent to the browser: the site's public address again (the same NUXT_PUBLIC_URL), for og:url.
     public: { url: '' },
   },
+  // The launch-side fill page is a client-rendered shell: its HTML holds no personal data, so the
+  // fill page's service worker may keep it (with its own nonce and policy) for the field (decision 0050).
+  routeRules: { '/events/*/fill': { ssr: false } },
   compatibilityDate: '2025-07-15',
   nitro: {
     experimental: { tasks: true },
@@ -84,9 +88,40 @@ export default defineNuxtConfig({
     compressPublicAssets: { gzip: true, brotli: true },
   },
   typescript: { strict: true },
+  hooks: { 'build:manifest': manifest => rememberClientManifest(manifest) },
   // nuxt-auth-utils' hashPassword/verifyPassword with THE parameters too (the server itself uses services/accounts/passwords.ts).
   auth: { hash: { scrypt: { ...SCRYPT_OPTIONS } } },
   eslint: { config: { stylistic: { semi: false, quotes: 'single', commaDangle: 'always-multiline' } } },
+  // The fill page's own service worker (service-worker/fill-sw.js), registered only by that page: it
+  // keeps the shell, that page's scripts and styles, the font, the icons and the club's public key.
+  pwa: {
+    strategies: 'injectManifest',
+    srcDir: 'service-worker',
+    filename: 'fill-sw.js',
+    injectRegister: false,
+    client: { registerPlugin: false, installPrompt: false, periodicSyncForUpdates: 0 },
+    registerWebManifestInRouteRules: true,
+    manifest: {
+      name: 'Hoopwise fill page',
+      short_name: 'Hoopwise',
+      description: 'The launch-side fill page: who may fill what, with or without a signal.',
+      lang: 'en',
+      start_url: '/events',
+      scope: '/events/',
+      display: 'standalone',
+      background_color: '#f6f3ea',
+      theme_color: '#1f5a4b',
+      icons: [
+        { src: '/icons/hoopwise-192.png', sizes: '192x192', type: 'image/png' },
+        { src: '/icons/hoopwise-512.png', sizes: '512x512', type: 'image/png' },
+        { src: '/icons/hoopwise-maskable-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+      ],
+    },
+    injectManifest: {
+      globPatterns: ['_nuxt/**/*.{js,css,woff2,json}', 'icons/*.png', 'favicon.svg', 'manifest.webmanifest'],
+      manifestTransforms: [fillPageManifestTransform],
+    },
+  },
   // Headers only: the project's own guard (server/middleware/0.request-guard.ts) bounds bodies, checks
   // media types and other sites' requests; sign-in has its own limits. nuxt-security's rate limiter,
   // size limiter and XSS validator would buffer bodies, throttle the load tests and refuse "> 10 bar".

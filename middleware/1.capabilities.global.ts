@@ -7,6 +7,8 @@ declare module '#app' {
     can?: Capability
     /** Pages open to visitors who are not signed in. */
     public?: boolean
+    /** The launch-side fill page: it asks for sign-in itself once the server answers (offline it cannot). */
+    field?: boolean
   }
 }
 
@@ -21,7 +23,7 @@ function sectionCapability(path: string): Capability | undefined {
  */
 export default defineNuxtRouteMiddleware((to) => {
   const { loggedIn } = useUserSession()
-  if (to.meta.public) return
+  if (to.meta.public || to.meta.field) return
   if (!loggedIn.value) return navigateTo({ path: '/login', query: to.fullPath === '/' ? {} : { next: to.fullPath } })
   // A page's own `can` wins; otherwise the section's capability from the navigation table applies.
   const capability = to.meta.can ?? sectionCapability(to.path)
