@@ -23,6 +23,7 @@ import * as m0024 from './0024-roster-imports'
 import * as m0025 from './0025-erasures'
 import * as m0027 from './0027-desk-tallies'
 import * as m0028 from './0028-desk-proof-standing'
+import * as m0031 from './0031-training-latest-passes'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -49,4 +50,5 @@ export const migrations = [
   { name: '0025-erasures', ...m0025 },
   { name: '0027-desk-tallies', ...m0027 },
   { name: '0028-desk-proof-standing', ...m0028 },
+  { name: '0031-training-latest-passes', ...m0031 },
 ]
