@@ -9,9 +9,11 @@ import type { MigrationFn } from '../migrator'
  * Kept by a row trigger on `training_records` in the transaction that writes the record: an insert, a
  * delete (an unconfirmed import discarded) and an update of any column the choice or the copy reads
  * (result, confirmation, training day, expiry, retraining flag, member, course) refresh the member's
- * row for that course. The refresh takes a transaction lock on (member, course) before it reads, so
- * two transactions writing records of the same member and course refresh one after the other and the
- * second sees the first's record. An unconfirmed import stays out until it is confirmed.
+ * row for that course. The refresh locks that row before it reads the records (and reads again once
+ * it holds the lock of a row it created), so two transactions writing records of the same member and
+ * course refresh one after the other and the second sees the first's record. A row lock, not an
+ * advisory lock: a bulk import of thousands of records in one transaction would fill the lock table.
+ * An unconfirmed import stays out until it is confirmed.
  *
  * Ids, dates and a flag only: no personal text (the erasure's free-text step finds nothing here).
  */
@@ -29,21 +31,36 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
     );
     CREATE INDEX training_latest_passes_due ON training_latest_passes (club_id, expires_on) WHERE NOT retraining;
 
-    CREATE FUNCTION training_latest_refresh(membership uuid, course uuid) RETURNS void LANGUAGE plpgsql AS $$
-    DECLARE last record;
-    BEGIN
-      PERFORM pg_advisory_xact_lock(hashtextextended('training_latest ' || membership::text || ' ' || course::text, 0));
-      SELECT r.id, r.club_id, r.expires_on, r.retraining_required_at IS NOT NULL AS retraining INTO last
+    CREATE FUNCTION training_latest_pick(membership uuid, course uuid) RETURNS TABLE (club_id uuid, record_id uuid, expires_on date, retraining boolean)
+      LANGUAGE sql STABLE AS $$
+      SELECT r.club_id, r.id, r.expires_on, r.retraining_required_at IS NOT NULL
         FROM training_records r WHERE r.membership_id = membership AND r.course_id = course AND r.result = 'pass' AND r.confirmed_at IS NOT NULL
        ORDER BY r.trained_to DESC, r.created_at DESC, r.id DESC LIMIT 1;
+    $$;
+
+    CREATE FUNCTION training_latest_refresh(membership uuid, course uuid) RETURNS void LANGUAGE plpgsql AS $$
+    DECLARE
+      held boolean;
+      last record;
+    BEGIN
+      PERFORM 1 FROM training_latest_passes WHERE membership_id = membership AND course_id = course FOR UPDATE;
+      held := FOUND;
+      SELECT * INTO last FROM training_latest_pick(membership, course);
       IF NOT FOUND THEN
         DELETE FROM training_latest_passes WHERE membership_id = membership AND course_id = course;
         RETURN;
       END IF;
       INSERT INTO training_latest_passes (membership_id, course_id, club_id, record_id, expires_on, retraining)
-        VALUES (membership, course, last.club_id, last.id, last.expires_on, last.retraining)
+        VALUES (membership, course, last.club_id, last.record_id, last.expires_on, last.retraining)
         ON CONFLICT (membership_id, course_id) DO UPDATE SET club_id = EXCLUDED.club_id, record_id = EXCLUDED.record_id,
           expires_on = EXCLUDED.expires_on, retraining = EXCLUDED.retraining;
+      -- The row was new when read: another transaction may have written one meanwhile (its record unseen
+      -- above). The row is locked now, so a fresh read sees whatever that transaction committed.
+      IF NOT held THEN
+        UPDATE training_latest_passes t SET club_id = p.club_id, record_id = p.record_id, expires_on = p.expires_on, retraining = p.retraining
+          FROM training_latest_pick(membership, course) p
+         WHERE t.membership_id = membership AND t.course_id = course AND t.record_id <> p.record_id;
+      END IF;
     END $$;
 
     CREATE FUNCTION training_records_latest() RETURNS trigger LANGUAGE plpgsql AS $$
@@ -69,6 +86,7 @@ export const down: MigrationFn = async ({ context: sequelize }) => {
     DROP TRIGGER IF EXISTS training_records_latest ON training_records;
     DROP FUNCTION IF EXISTS training_records_latest();
     DROP FUNCTION IF EXISTS training_latest_refresh(uuid, uuid);
+    DROP FUNCTION IF EXISTS training_latest_pick(uuid, uuid);
     DROP TABLE IF EXISTS training_latest_passes;
   `)
 }
