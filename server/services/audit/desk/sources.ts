@@ -38,23 +38,21 @@ const NOT_RESIGNED = (column: string) =>
   `${column} NOT IN (SELECT x.id FROM memberships x WHERE x.club_id = :clubId AND x.resigned_at IS NOT NULL)`
 
 /**
- * Members' latest passed record of a course (fit tests only, or all but them) expiring by `until`: the
- * records due in the window (an index range), each kept when it is its member's latest pass of that
- * course (by training day, then by entry): one probe of the first entry of migration 0028's index,
- * which holds passed, confirmed records in that order.
+ * Members' latest passed, confirmed record of a course (fit tests only, or all but them) expiring by
+ * `until`, not flagged for retraining: an index range of the stored latest pass per member and course
+ * (`training_latest_passes`, kept by a trigger on the records: migration 0031), so neither a count nor
+ * a page asks of each record whether a later pass supersedes it.
  */
 export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
   const course = fitTests === null ? '' : `AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'`
   return `
-  SELECT r.id, 'member' AS link_kind, r.membership_id::text AS link_id, u.name AS link_label,
-         u.name AS "member", c.name AS "course", r.expires_on::text AS "expiresOn", (r.expires_on - CAST(:today AS date)) AS "daysLeft",
-         u.name || ' ' || c.name AS search, NULL::text AS state, r.expires_on::text AS due_on, c.code AS course_code
-    FROM training_records r JOIN courses c ON c.id = r.course_id
-    LEFT JOIN memberships m ON m.id = r.membership_id LEFT JOIN users u ON u.id = m.user_id
-   WHERE r.club_id = :clubId AND r.result = 'pass' AND r.confirmed_at IS NOT NULL AND r.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
-     AND r.id = (SELECT n.id FROM training_records n WHERE n.membership_id = r.membership_id AND n.course_id = r.course_id AND n.result = 'pass'
-                  AND n.confirmed_at IS NOT NULL ORDER BY n.trained_to DESC, n.created_at DESC, n.id DESC LIMIT 1)
-     AND r.retraining_required_at IS NULL AND ${NOT_RESIGNED('r.membership_id')} ${course}`
+  SELECT p.record_id AS id, 'member' AS link_kind, p.membership_id::text AS link_id, u.name AS link_label,
+         u.name AS "member", c.name AS "course", p.expires_on::text AS "expiresOn", (p.expires_on - CAST(:today AS date)) AS "daysLeft",
+         u.name || ' ' || c.name AS search, NULL::text AS state, p.expires_on::text AS due_on, c.code AS course_code
+    FROM training_latest_passes p JOIN courses c ON c.id = p.course_id
+    LEFT JOIN memberships m ON m.id = p.membership_id LEFT JOIN users u ON u.id = m.user_id
+   WHERE p.club_id = :clubId AND NOT p.retraining AND p.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
+     AND ${NOT_RESIGNED('p.membership_id')} ${course}`
 }
 
 /**
