@@ -192,5 +192,5 @@ describe('the fill page at a field without a signal', () => {
     expect(again.body.results.map(r => r.outcome)).toEqual(['duplicate', 'duplicate', 'duplicate', 'duplicate'])
     expect(await logged(vessel.vesselId)).toEqual({ allowed: 3, refused: 1 })
     await page.close()
-  })
+  }, 180_000) // two server starts and a service-worker install: slow on a loaded machine
 })
