@@ -1,9 +1,7 @@
 import { z } from 'zod'
 import { FILL_REASON_CODES } from '../utils/fill-reasons'
 import { PRESSURE_ENTRY_UNITS } from '../utils/units'
-
-const uuidField = (what: string) => z.string({ required_error: `Choose ${what}`, invalid_type_error: `Choose ${what}` })
-  .uuid(`Not a valid ${what} id`).transform(id => id.toLowerCase())
+import { uuidField } from './fills'
 
 /** At most this many queued items in one sync call; the page sends a longer queue in turns. */
 export const MAX_SYNC_ITEMS = 200

@@ -1,8 +1,9 @@
 import { z } from 'zod'
 import { PRESSURE_ENTRY_UNITS } from '../utils/units'
 
-const uuidField = (what: string) => z.string({ required_error: `Choose ${what}`, invalid_type_error: `Choose ${what}` })
-  .uuid(`Not a valid ${what} id`).transform(id => id.toLowerCase())
+/** A UUID field named `what` in its messages ("Choose the member"), lower-cased. */
+export const uuidField = (what: string) => z.string({ required_error: `Choose ${what}`, invalid_type_error: `Choose ${what}` })
+  .uuid(`Not a valid id for ${what}`).transform(id => id.toLowerCase())
 
 /**
  * A fill as asked at the launch table (`POST /api/fills/check` and `POST /api/fills`): the member
