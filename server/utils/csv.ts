@@ -10,10 +10,15 @@ export const EXPORT_MAX_ROWS = 200_000
  * answers: the shared writer in `shared/utils/csv.ts` quotes and neutralises formulas).
  */
 export function sendCsv(event: H3Event, filename: string, header: readonly string[], rows: readonly (readonly CsvValue[])[]): string {
+  return sendCsvText(event, filename, toCsv(header, rows))
+}
+
+/** Sends a CSV document already written (by `toCsv`, or by PostgreSQL's `csv_cell`, its twin) as a download named `filename`. */
+export function sendCsvText(event: H3Event, filename: string, text: string): string {
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')
   setResponseHeader(event, 'content-disposition', `attachment; filename="${filename.replace(/[^\w.-]/g, '-')}"`)
   setResponseHeader(event, 'cache-control', 'no-store')
-  return toCsv(header, rows)
+  return text
 }
 
 /**

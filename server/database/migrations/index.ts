@@ -26,6 +26,7 @@ import * as m0028 from './0028-desk-proof-standing'
 import * as m0029 from './0029-club-front-door'
 import * as m0030 from './0030-fill-snapshots'
 import * as m0031 from './0031-training-latest-passes'
+import * as m0032 from './0032-csv-cell'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -55,4 +56,5 @@ export const migrations = [
   { name: '0029-club-front-door', ...m0029 },
   { name: '0030-fill-snapshots', ...m0030 },
   { name: '0031-training-latest-passes', ...m0031 },
+  { name: '0032-csv-cell', ...m0032 },
 ]

@@ -3,7 +3,8 @@ import type { Actor } from '../../../utils/auth'
 import { containsPattern } from '../../../utils/like-pattern'
 import type { DeskQuery } from '#shared/schemas/audit-desk'
 import type { DeskCountDto, DeskCountsDto, DeskPageDto, DeskRowDto } from '#shared/types/audit-desk'
-import { DESK_TABLES, DESK_TABLE_INFO, OFFICER_ONLY_COLUMNS, deskCsvCell, type DeskColumn, type DeskTable } from '#shared/utils/audit-desk'
+import { DESK_TABLES, DESK_TABLE_INFO, OFFICER_ONLY_COLUMNS, type DeskColumn, type DeskTable } from '#shared/utils/audit-desk'
+import { toCsv } from '#shared/utils/csv'
 import { deskContext, type DeskContext } from './context'
 import { DESK_SOURCES, type DeskSourceRow } from './sources'
 
@@ -25,16 +26,23 @@ function checkedQuery(table: DeskTable, query: DeskQuery) {
   return { sort, dir: query.dir ?? info.defaultDir, until: info.windowed ? `d${query.within}` : null }
 }
 
+/**
+ * Where a row links, by its kind: the page's path before the row's `link_id` (a station links to the
+ * stations page). A vessel's `link_id` is its tag, `^[A-Z]{2,5}-[0-9]{4,}$` by constraint, so it needs
+ * no escaping in a path, written by TypeScript or by SQL.
+ */
+const LINK_PATHS: Record<DeskSourceRow['link_kind'], { path: string, withId: boolean }> = {
+  member: { path: '/members/', withId: true }, vessel: { path: '/vessels/', withId: true },
+  event: { path: '/events/', withId: true }, station: { path: '/fill-stations', withId: false },
+}
+
 /** A source row as the reader sees it: its link, and its cells (standings in words). */
 function toRow(table: DeskTable, r: DeskSourceRow, columns: DeskColumn[]): DeskRowDto {
   const info = DESK_TABLE_INFO[table]
-  const LINKS: Record<DeskSourceRow['link_kind'], string> = {
-    member: `/members/${r.link_id}`, vessel: `/vessels/${encodeURIComponent(r.link_id)}`, event: `/events/${r.link_id}`, station: '/fill-stations',
-  }
-  const to = LINKS[r.link_kind]
+  const link = LINK_PATHS[r.link_kind]
   const cells = Object.fromEntries(columns.map(c => [c.key,
     c.key === 'state' || c.key === 'kind' ? (r.state === null ? null : info.states[r.state] ?? r.state) : r[c.key] ?? null]))
-  return { id: r.id, link: { to, label: r.link_label }, cells }
+  return { id: r.id, link: { to: link.withId ? link.path + r.link_id : link.path, label: r.link_label }, cells }
 }
 
 /** Filter, sort and page rows a computed source gave (the same rules as the SQL wrapper). */
@@ -59,10 +67,28 @@ function pageComputed(rows: DeskSourceRow[], q: { sort: string, dir: 'asc' | 'de
 }
 
 /**
- * One page of desk table `table` (every row with `all`, for the CSV), filtered, sorted and paged by the
- * server: a SQL table in one query (the count in a window function), a computed one from its source.
+ * The WHERE and ORDER BY of a SQL table's query, page or CSV, over its source aliased `t`: the
+ * window, the standing and the search; the sort column (one of the table's keys, checked, so it may be
+ * written into the statement), empty values last, then the id.
  */
-export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQuery, opts: { all?: boolean } = {}): Promise<DeskPageDto> {
+function sqlSelection(ctx: DeskContext, q: { sort: string, dir: 'asc' | 'desc', until: string | null }, query: DeskQuery) {
+  const where = ['true']
+  if (q.until) where.push(`(t.due_on IS NULL OR t.due_on <= :${q.until})`)
+  if (query.state !== undefined) where.push('t.state = :state')
+  if (query.q) where.push(`lower(t.search) LIKE :pattern`)
+  const column = q.sort === 'state' || q.sort === 'kind' ? 't.state' : `t."${q.sort}"`
+  return {
+    where: where.join(' AND '),
+    order: `${column} ${q.dir === 'desc' ? 'DESC' : 'ASC'} NULLS LAST, t.id`,
+    replacements: { ...ctx.replacements, state: query.state, pattern: query.q ? containsPattern(query.q) : null },
+  }
+}
+
+/**
+ * One page of desk table `table`, filtered, sorted and paged by the server: a SQL table in one query
+ * (the count in a window function), a computed one from its source.
+ */
+export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQuery): Promise<DeskPageDto> {
   const ctx = await deskContext(actor)
   const q = checkedQuery(table, query)
   const columns = deskColumns(table, ctx.officer)
@@ -70,32 +96,49 @@ export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQ
   let total: number
   let rows: DeskSourceRow[]
   if (source.kind === 'computed') {
-    ({ total, rows } = pageComputed(await source.rows(ctx), q, query, ctx, !!opts.all))
+    ({ total, rows } = pageComputed(await source.rows(ctx), q, query, ctx, false))
   }
   else {
-    const where = ['true']
-    if (q.until) where.push(`(t.due_on IS NULL OR t.due_on <= :${q.until})`)
-    if (query.state !== undefined) where.push('t.state = :state')
-    if (query.q) where.push(`lower(t.search) LIKE :pattern`)
-    // `sort` is one of the table's column keys (checked above), so it may be written into the statement.
-    const order = q.sort === 'state' || q.sort === 'kind' ? 't.state' : `t."${q.sort}"`
+    const { where, order, replacements } = sqlSelection(ctx, q, query)
     const found = await useDb().query<DeskSourceRow & { total: number }>(
-      `SELECT ${opts.all ? '' : 'count(*) OVER ()::int AS total,'} t.* FROM (${source.sql(ctx)}) t WHERE ${where.join(' AND ')}
-        ORDER BY ${order} ${q.dir === 'desc' ? 'DESC' : 'ASC'} NULLS LAST, t.id ${opts.all ? '' : 'LIMIT :limit OFFSET :offset'}`,
-      { replacements: { ...ctx.replacements, state: query.state, pattern: query.q ? containsPattern(query.q) : null, limit: query.pageSize, offset: (query.page - 1) * query.pageSize }, type: QueryTypes.SELECT })
-    // Every row (the CSV) needs no window count: the total is the rows themselves.
-    total = opts.all ? found.length : found[0]?.total ?? 0
+      `SELECT count(*) OVER ()::int AS total, t.* FROM (${source.sql(ctx)}) t WHERE ${where} ORDER BY ${order} LIMIT :limit OFFSET :offset`,
+      { replacements: { ...replacements, limit: query.pageSize, offset: (query.page - 1) * query.pageSize }, type: QueryTypes.SELECT })
+    total = found[0]?.total ?? 0
     rows = found
   }
   return { table, today: ctx.today, columns, items: rows.map(r => toRow(table, r, columns)), page: query.page, pageSize: query.pageSize, total }
 }
 
-/** Desk table `table` as CSV: a header of column keys, then one line per row the filter selects, with its link. */
+/**
+ * Desk table `table` as CSV: a header of column keys, then one line per row the filter selects, with
+ * its link, in the page's order. A SQL table's lines are written by PostgreSQL in the same query
+ * (`csv_cell`, migration 0032, the twin of the shared `csvCell`), so thousands of rows cost the server
+ * one string instead of an object each; a computed table's go through the shared writer.
+ */
 export async function deskTableCsv(actor: Actor, table: DeskTable, query: DeskQuery): Promise<string> {
-  const page = await deskTablePage(actor, table, query, { all: true })
-  const header = [...page.columns.map(c => c.key), 'link']
-  const lines = page.items.map(r => [...page.columns.map(c => r.cells[c.key] ?? null), r.link.to].map(deskCsvCell).join(','))
-  return [header.join(','), ...lines].join('\r\n') + '\r\n'
+  const ctx = await deskContext(actor)
+  const q = checkedQuery(table, query)
+  const columns = deskColumns(table, ctx.officer)
+  const header = [...columns.map(c => c.key), 'link']
+  const source = DESK_SOURCES[table]
+  if (source.kind === 'computed') {
+    const { rows } = pageComputed(await source.rows(ctx), q, query, ctx, true)
+    return toCsv(header, rows.map(r => toRow(table, r, columns)).map(r => [...columns.map(c => r.cells[c.key] ?? null), r.link.to]))
+  }
+  const { where, order, replacements } = sqlSelection(ctx, q, query)
+  const cells = columns.map(c => c.key === 'state' || c.key === 'kind'
+    ? 'csv_cell(coalesce(CAST(:stateWords AS jsonb) ->> t.state, t.state))'
+    : `csv_cell(t."${c.key}")`)
+  // A link is a path and an id or tag: nothing in it needs quoting or defusing.
+  const link = `CASE t.link_kind ${Object.entries(LINK_PATHS).map(([kind, l]) =>
+    `WHEN '${kind}' THEN '${l.path}'${l.withId ? ' || t.link_id' : ''}`).join(' ')} END`
+  // OFFSET 0 keeps the source a subquery, so each of its columns is computed once per row: inlined,
+  // csv_cell would otherwise repeat a computed column's expression (a proof's standing) in each test.
+  const [written] = await useDb().query<{ lines: string | null }>(
+    `SELECT string_agg(${[...cells, link].join(` || ',' || `)}, E'\\r\\n' ORDER BY ${order}) AS lines
+       FROM (SELECT * FROM (${source.sql(ctx)}) s OFFSET 0) t WHERE ${where}`,
+    { replacements: { ...replacements, stateWords: JSON.stringify(DESK_TABLE_INFO[table].states) }, type: QueryTypes.SELECT })
+  return `${header.join(',')}\r\n${written?.lines ? `${written.lines}\r\n` : ''}`
 }
 
 /** The count of a computed table, from its rows. */
