@@ -27,6 +27,7 @@ import * as m0029 from './0029-club-front-door'
 import * as m0030 from './0030-fill-snapshots'
 import * as m0031 from './0031-training-latest-passes'
 import * as m0032 from './0032-csv-cell'
+import * as m0033 from './0033-latest-pass-user'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -57,4 +58,5 @@ export const migrations = [
   { name: '0030-fill-snapshots', ...m0030 },
   { name: '0031-training-latest-passes', ...m0031 },
   { name: '0032-csv-cell', ...m0032 },
+  { name: '0033-latest-pass-user', ...m0033 },
 ]

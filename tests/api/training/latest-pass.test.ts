@@ -8,9 +8,10 @@ import type { DeskPageDto } from '../../../shared/types/audit-desk'
 // The stored latest pass per member and course (training_latest_passes, kept by a trigger on the
 // records) must always be what the "latest" order picks from the records themselves: passed,
 // confirmed, by training day, then entry, then id. Each step below writes records the way the app
-// or an import does and compares the two for every member and course of the test's club.
+// or an import does and compares the two for every member and course of the test's club (the stored
+// row also carries the member's account, which a foreign key holds to the membership's).
 
-interface Latest { membership_id: string, course_id: string, record_id: string, expires_on: string, retraining: boolean }
+interface Latest { membership_id: string, course_id: string, record_id: string, expires_on: string, retraining: boolean, user_id: string }
 
 let clubId = ''
 let instructor: MadeMember & { cookie: string }
@@ -19,14 +20,15 @@ let member: MadeMember
 let other: MadeMember
 
 /** The stored rows of the club. */
-const stored = () => sql<Latest>(`SELECT membership_id, course_id, record_id, expires_on::text, retraining FROM training_latest_passes
+const stored = () => sql<Latest>(`SELECT membership_id, course_id, record_id, expires_on::text, retraining, user_id FROM training_latest_passes
   WHERE club_id = $1 ORDER BY membership_id, course_id`, [clubId])
 
 /** The same answer from the records, in the order the training pages decide "latest". */
-const ordered = () => sql<Latest>(`SELECT DISTINCT ON (membership_id, course_id) membership_id, course_id, id AS record_id, expires_on::text,
-    retraining_required_at IS NOT NULL AS retraining
-  FROM training_records WHERE club_id = $1 AND result = 'pass' AND confirmed_at IS NOT NULL
-  ORDER BY membership_id, course_id, trained_to DESC, created_at DESC, id DESC`, [clubId])
+const ordered = () => sql<Latest>(`SELECT DISTINCT ON (r.membership_id, r.course_id) r.membership_id, r.course_id, r.id AS record_id, r.expires_on::text,
+    r.retraining_required_at IS NOT NULL AS retraining, m.user_id
+  FROM training_records r JOIN memberships m ON m.id = r.membership_id
+  WHERE r.club_id = $1 AND r.result = 'pass' AND r.confirmed_at IS NOT NULL
+  ORDER BY r.membership_id, r.course_id, r.trained_to DESC, r.created_at DESC, r.id DESC`, [clubId])
 
 /** Checks the two agree and returns the stored record of `memberId` for `course` (its code), or undefined. */
 async function agreed(memberId: string, course: string): Promise<Latest | undefined> {
@@ -104,5 +106,13 @@ describe('the stored latest pass per member and course', () => {
     expect(await agreed(member.memberId, 'pressure_safety')).toBeUndefined()
     // The other member's rows were never touched.
     expect((await stored()).filter(r => r.membership_id === other.memberId)).toHaveLength(2)
+  })
+
+  it('refuses a stored row that names another account than its membership\'s', async () => {
+    const [row] = (await stored()).filter(r => r.membership_id === other.memberId)
+    const [otherUser] = await sql<{ user_id: string }>('SELECT user_id FROM memberships WHERE id = $1', [member.memberId])
+    await expect(sql('UPDATE training_latest_passes SET user_id = $3 WHERE membership_id = $1 AND course_id = $2',
+      [row!.membership_id, row!.course_id, otherUser!.user_id])).rejects.toThrow(/training_latest_passes_membership_user_fkey/)
+    expect((await stored()).find(r => r.record_id === row!.record_id)).toEqual(row)
   })
 })

@@ -41,7 +41,8 @@ const NOT_RESIGNED = (column: string) =>
  * Members' latest passed, confirmed record of a course (fit tests only, or all but them) expiring by
  * `until`, not flagged for retraining: an index range of the stored latest pass per member and course
  * (`training_latest_passes`, kept by a trigger on the records: migration 0031), so neither a count nor
- * a page asks of each record whether a later pass supersedes it.
+ * a page asks of each record whether a later pass supersedes it; the member's name is one probe of
+ * `users` by the account the row carries (migration 0033).
  */
 export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
   const course = fitTests === null ? '' : `AND c.code ${fitTests ? '=' : '<>'} 'respirator_fit'`
@@ -49,8 +50,7 @@ export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
   SELECT p.record_id AS id, 'member' AS link_kind, p.membership_id::text AS link_id, u.name AS link_label,
          u.name AS "member", c.name AS "course", p.expires_on::text AS "expiresOn", (p.expires_on - CAST(:today AS date)) AS "daysLeft",
          u.name || ' ' || c.name AS search, NULL::text AS state, p.expires_on::text AS due_on, c.code AS course_code
-    FROM training_latest_passes p JOIN courses c ON c.id = p.course_id
-    LEFT JOIN memberships m ON m.id = p.membership_id LEFT JOIN users u ON u.id = m.user_id
+    FROM training_latest_passes p JOIN courses c ON c.id = p.course_id LEFT JOIN users u ON u.id = p.user_id
    WHERE p.club_id = :clubId AND NOT p.retraining AND p.expires_on BETWEEN CAST(:today AS date) AND CAST(${until} AS date)
      AND ${NOT_RESIGNED('p.membership_id')} ${course}`
 }
