@@ -19,6 +19,9 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 5)
 const WARM_UP_SECONDS = Number(process.env.BENCH_WARMUP_SECONDS ?? 1)
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 20)
 const REUSE_BUILD = process.env.BENCH_REUSE_BUILD === '1'
+// BENCH_HOLD=1 seeds, prints the database and server addresses and the cookie, and waits for Ctrl-C
+// (to EXPLAIN a desk query on the benchmark's data) instead of driving the routes.
+const HOLD = process.env.BENCH_HOLD === '1'
 // Ports of this benchmark alone (bench:fills takes pgPort+9 and spareBase+14/15).
 const PG_PORT = TEST.pgPort + 10
 const SMTP_PORT = TEST.spareBase + 12
@@ -101,6 +104,24 @@ try {
   await seedDeskWorld(client)
   console.log(`• desk world seeded in ${Math.round(performance.now() - started)} ms`)
   const cookie = await signInDemoSafety(baseUrl)
+  if (HOLD) {
+    console.log(`• holding: psql ${stack.ownerUrl}\n  curl -H 'cookie: ${cookie}' ${baseUrl}/api/audit/desk\n  Ctrl-C stops`)
+    await new Promise(resolve => process.once('SIGINT', resolve))
+  }
+  else {
+    await driveDesk(baseUrl, cookie)
+  }
+}
+catch (error) {
+  console.error(`\n✖ ${error.message}`)
+  process.exitCode = 1
+}
+finally {
+  await stack?.stop()
+}
+
+/** Every desk route against the floor, in turn; prints the table and sets the exit code when one misses. */
+async function driveDesk(baseUrl, cookie) {
   const paths = [FLOOR, '/api/audit/desk', '/api/audit/desk/charts', ...TABLES.map(t => `/api/audit/desk/${t}`), ...TABLES.map(t => `/api/audit/desk/${t}/export`)]
   for (const path of paths.slice(1)) {
     const probe = await fetch(new URL(path, baseUrl), { headers: { cookie } })
@@ -126,11 +147,4 @@ try {
   }
   console.log(`\nload average ${load()} after the run; ${missed} route(s) below ${TARGET}× the floor`)
   if (missed) process.exitCode = 1
-}
-catch (error) {
-  console.error(`\n✖ ${error.message}`)
-  process.exitCode = 1
-}
-finally {
-  await stack?.stop()
 }
