@@ -3,6 +3,7 @@ import type { FillGateFacts } from '../utils/fill-gate'
 import type { MembershipStatus } from '../utils/membership-status'
 import type { TierRank } from '../utils/tier-rules'
 import type { PressureEntryUnit } from '../utils/units'
+import type { DistanceRule } from '../utils/vessel-arithmetic'
 
 /** The shape's version; the fill page refuses a snapshot of any other. */
 export const FILL_SNAPSHOT_VERSION = 1
@@ -81,6 +82,11 @@ export interface FillSnapshot {
   /** The club's tier table, rank order. */
   tiers: { rank: TierRank, code: string, name: string, fillCapBar: number, requiredCourseCodes: string[] }[]
   juniorCapRank: number
+  /**
+   * The club's standoff rule, so the page shows the distance beside an offline verdict as the online
+   * check does. Optional: a snapshot issued before it was added still verifies and decides (no standoff).
+   */
+  distanceRule?: DistanceRule
   courses: { code: string, name: string }[]
   members: SnapshotMember[]
   staff: SnapshotStaff[]

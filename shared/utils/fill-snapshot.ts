@@ -16,6 +16,8 @@ import type { FillSnapshot, SnapshotMember, SnapshotVessel } from '../types/fill
 import { dateInZone } from './dates'
 import { decideFill, type FillDecision, type FillGateFacts } from './fill-gate'
 import type { TierRank } from './tier-rules'
+import type { PressureEntryUnit } from './units'
+import { airCharge, VesselArithmeticError, type AirCharge } from './vessel-arithmetic'
 
 /** One fill asked of the snapshot. */
 export interface SnapshotFillQuery {
@@ -102,6 +104,28 @@ export function snapshotFacts(s: FillSnapshot, q: SnapshotFillQuery): { facts: F
 export function decideFromSnapshot(s: FillSnapshot, q: SnapshotFillQuery): { decision: FillDecision } | { missing: SnapshotMissing } {
   const r = snapshotFacts(s, q)
   return 'missing' in r ? r : { decision: decideFill(r.facts) }
+}
+
+/** The standoff figures beside a verdict, as the online check sends them. */
+export type StandoffFigures = Pick<AirCharge, 'storedEnergyJ' | 'tntEquivalentKg' | 'minimumDistanceM'>
+
+/**
+ * The air charge of a fill the device decides, by the shared arithmetic and the snapshot's distance
+ * rule, as the online check works it out (`airCharge`, ASME PCC-2 App. II and III). `problem`: the
+ * arithmetic refuses the entry (the water fills the vessel), with its words, as the online check's 400
+ * does. `charge` is null when the snapshot carries no distance rule (issued before it did).
+ */
+export function snapshotAirCharge(s: FillSnapshot, vessel: SnapshotVessel, entry: { pressure: number, unit: PressureEntryUnit, waterVolumeL: number }):
+  { charge: StandoffFigures | null } | { problem: string } {
+  try {
+    // Without the club's rule the entry is still checked (with either rule: they differ only in the distance).
+    const c = airCharge({ gaugePressure: entry.pressure, unit: entry.unit, vesselVolumeL: vessel.volumeL, waterVolumeL: entry.waterVolumeL, distanceRule: s.distanceRule ?? 'tnt' })
+    return { charge: s.distanceRule ? { storedEnergyJ: c.storedEnergyJ, tntEquivalentKg: c.tntEquivalentKg, minimumDistanceM: c.minimumDistanceM } : null }
+  }
+  catch (error) {
+    if (error instanceof VesselArithmeticError) return { problem: error.message }
+    throw error
+  }
 }
 
 /** The device's date in the club's time zone, and whether it is the event's day (the page decides only then). */

@@ -162,6 +162,8 @@ describe('the fill page at a field without a signal', () => {
       await recordOffline(page, { memberId: member.memberId, tag: vessel.tag, stationName: station.name, pressureBar: '8', queued: i })
       expect(await page.getByTestId('fill-verdict-word').textContent()).toBe('GO')
     }
+    // The standoff beside the offline verdict, from the club's distance rule in the signed facts.
+    expect(await page.getByTestId('fill-standoff').textContent()).toMatch(/\d+\.\d m/)
     // 12 bar is above the member's tier cap (T2, 10 bar): NO GO, and the refusal is kept too.
     await recordOffline(page, { memberId: member.memberId, tag: vessel.tag, stationName: station.name, pressureBar: '12', queued: 4 })
     expect(await page.getByTestId('fill-verdict-word').textContent()).toBe('NO GO')

@@ -225,6 +225,7 @@ async function buildSnapshot(actor: Actor, ev: EventRow, deviceId: string, holds
     event: { id: ev.id, site: ev.site, heldOn, pressureCapBar: Number(ev.pressure_cap_bar), competition: ev.competition },
     tiers: f.levels.map(l => ({ rank: l.rank, code: tierCode(l.rank), name: l.name, fillCapBar: Number(l.fill_cap_bar), requiredCourseCodes: l.required_course_codes })),
     juniorCapRank: f.policyRow.junior_cap_rank ?? DEFAULT_JUNIOR_CAP_RANK,
+    distanceRule: policy.distanceRule,
     courses: f.courses,
     members,
     staff,

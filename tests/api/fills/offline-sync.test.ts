@@ -6,6 +6,7 @@ import { clubDay, makeFill, makeTier } from '../../support/factories'
 import { check, codesOf, fillBody, fillClub, filler, otherEvent, person, type FillClub, type Filler, type Person } from './fill-support'
 import { clubKey, decideOffline, downloadSnapshot, offlineItem, releaseDevice, sync, verifiedSnapshot } from './offline-support'
 import { verifySnapshotBytes } from '../../../shared/utils/fill-snapshot-signature'
+import { snapshotAirCharge } from '../../../shared/utils/fill-snapshot'
 import type { LaunchEventDto } from '../../../shared/types/events'
 import { FILL_REASON_CODES } from '../../../shared/utils/fill-reasons'
 
@@ -68,6 +69,11 @@ describe('the signed snapshot', () => {
     expect(today.stations).toEqual([expect.objectContaining({ id: club.stationId, atEvent: true, launchLimitBar: 25 })])
     expect(today).toMatchObject({ event: { id: club.eventId, heldOn: clubDay(0), pressureCapBar: 25, competition: false }, issuedByMembershipId: club.instructor.memberId })
     expect(today.tiers.map(t => t.rank)).toEqual([0, 1, 2, 3, 4])
+    // The club's distance rule: the device shows the standoff the online check answers for the same entry.
+    const online = await check(club.instructor.cookie, fillBody(club, m))
+    expect(online.status, JSON.stringify(online.body)).toBe(200)
+    const entry = fillBody(club, m)
+    expect(snapshotAirCharge(today, inToday.vessels[0]!, entry)).toEqual({ charge: online.body.airCharge })
   })
 
   it('only the event\'s staff with fills.record_any get one: 403 otherwise, 404 no such event, 409 cancelled or past', async () => {

@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { FILL_SNAPSHOT_VERSION, type FillSnapshot } from '../../../shared/types/fill-snapshots'
-import { decideFromSnapshot, memberByPassToken, passIdFromToken, snapshotDay, snapshotFacts, vesselStateOnDevice } from '../../../shared/utils/fill-snapshot'
+import { decideFromSnapshot, memberByPassToken, passIdFromToken, snapshotAirCharge, snapshotDay, snapshotFacts, vesselStateOnDevice } from '../../../shared/utils/fill-snapshot'
+import { airCharge } from '../../../shared/utils/vessel-arithmetic'
 import { STARTING_TIER_LEVELS } from '../../../shared/utils/tier-rules'
 import { fillPassToken } from '../../../server/services/tiers/fill-pass-token'
 
@@ -82,5 +83,22 @@ describe('the fill gate fed from a snapshot', () => {
     expect(memberByPassToken(snapshot(), token)?.id).toBe(MEMBER)
     expect(memberByPassToken(snapshot(), fillPassToken('k'.repeat(64), MEMBER))).toBeNull()
     expect(passIdFromToken('not a token')).toBeNull()
+  })
+
+  it('works out the standoff with the snapshot\'s distance rule, as the online check does, and refuses water filling the vessel', () => {
+    const s = { ...snapshot(), distanceRule: '2tnt' as const }
+    const vessel = s.members[0]!.vessels[0]!
+    const entry = { pressure: 8, unit: 'bar' as const, waterVolumeL: 0.6 }
+    const online = airCharge({ gaugePressure: 8, unit: 'bar', vesselVolumeL: vessel.volumeL, waterVolumeL: 0.6, distanceRule: '2tnt' })
+    expect(snapshotAirCharge(s, vessel, entry)).toEqual({
+      charge: { storedEnergyJ: online.storedEnergyJ, tntEquivalentKg: online.tntEquivalentKg, minimumDistanceM: online.minimumDistanceM },
+    })
+    // ASME PCC-2 (2008) Mandatory App. III (a): at least 30 m while the stored energy is at most 135.5 MJ.
+    expect(online.minimumDistanceM).toBe(30)
+    // A snapshot issued before it carried the rule: the entry is still checked, no standoff is shown.
+    expect(snapshotAirCharge(snapshot(), vessel, entry)).toEqual({ charge: null })
+    const full = snapshotAirCharge(s, vessel, { ...entry, waterVolumeL: 2 })
+    expect(full).toHaveProperty('problem')
+    expect('problem' in full && full.problem).toMatch(/water/i)
   })
 })
