@@ -1,5 +1,6 @@
 // Workshop stations: their kinds in words, and the cautions their pages show.
 import type { Words } from './words'
+import { COMPOSITE_CAUTION } from './training-words'
 
 export const STATION_KINDS = ['laminating_bench', 'cure_rack_slot', 'sanding_booth', 'test_rig'] as const
 export type StationKind = typeof STATION_KINDS[number]
@@ -17,8 +18,8 @@ export const MAX_CURE_HOLD_HOURS = 168
 
 // Composite work: resin and hardener are skin sensitisers; gloves, eye protection and ventilation
 // whenever they are open, and sanding dust needs extraction and a fitted respirator (see the
-// decision record on the workshop calendar for the published sources).
-export const COMPOSITE_CAUTION = 'Resin and hardener sensitise skin: once sensitised, a trace can set off a reaction. Wear nitrile gloves and eye protection, work with the ventilation on, and keep resin off your skin and clothes.'
+// decision record on the workshop calendar for the published sources). The resin caution is the
+// training pages' own (one wording of one hazard).
 export const SANDING_CAUTION = 'Sand cured composites only in the booth with the extraction running, wearing a respirator you have been fit-tested for, eye protection and gloves. Dust from glass and carbon fibre irritates skin, eyes and lungs.'
 export const RIG_CAUTION = 'The rig proof-tests full of water, behind its barrier: nobody stands over a pressurised vessel.'
 
