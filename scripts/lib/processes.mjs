@@ -1,10 +1,27 @@
 // Child processes started by the scripts and the tests: spawned, awaited, and always stopped.
 import { spawn } from 'node:child_process'
 import { mkdirSync } from 'node:fs'
+import { connect } from 'node:net'
 import { dirname, join } from 'node:path'
 import { fileURLToPath } from 'node:url'
 
 const projectRoot = join(dirname(fileURLToPath(import.meta.url)), '..', '..')
+
+/**
+ * Throws when something already listens on 127.0.0.1:`port`: a server left by an interrupted run
+ * would otherwise answer the health check, and a test or benchmark would run against the old build.
+ */
+export async function ensurePortFree(port) {
+  const taken = await new Promise((resolve) => {
+    const socket = connect({ port, host: '127.0.0.1' })
+    socket.once('connect', () => {
+      socket.destroy()
+      resolve(true)
+    })
+    socket.once('error', () => resolve(false))
+  })
+  if (taken) throw new Error(`port ${port} is taken: a server from an interrupted run may still be up (stop it, or move the ports with HOOPWISE_TEST_PORT_OFFSET)`)
+}
 
 /** Polls `url` until it answers (any HTTP status) or `timeoutMs` passes. */
 export async function waitForHttp(url, timeoutMs = 60_000, okOnly = false) {
@@ -73,6 +90,7 @@ export async function startPaymentFake({ port, secretKey, webhookSecret, webhook
 
 /** Starts the built production server (.output) on `port` with `env`; waits until /api/health answers. */
 export async function startAppServer({ root, port, env, quiet = true }) {
+  await ensurePortFree(port)
   const child = startProcess(process.execPath, [join(root, '.output/server/index.mjs')], {
     cwd: root,
     env: { ...env, PORT: String(port), HOST: '127.0.0.1', NITRO_PORT: String(port), NITRO_HOST: '127.0.0.1' },
