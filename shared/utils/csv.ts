@@ -1,6 +1,7 @@
 /**
  * THE CSV writer of every export: one header line, then one line per row, Windows line endings (what
- * spreadsheet programs write), a cell quoted only when it holds a quote, a comma or a line break.
+ * spreadsheet programs write) unless asked for `\n` (the audit desk's, whose large tables PostgreSQL's
+ * COPY writes with the same cell rules), a cell quoted only when it holds a quote, a comma or a line break.
  */
 
 /** What a cell may hold: numbers stay numbers, an empty value is an empty cell. */
@@ -22,7 +23,7 @@ export function csvCell(value: CsvValue): string {
   return /[",\n\r]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
 }
 
-/** A whole CSV document: the header, then each row, every line ending in CRLF. */
-export function toCsv(header: readonly string[], rows: readonly (readonly CsvValue[])[]): string {
-  return [header, ...rows].map(row => row.map(csvCell).join(',')).join('\r\n') + '\r\n'
+/** A whole CSV document: the header, then each row, every line ending in `newline` (CRLF unless asked). */
+export function toCsv(header: readonly string[], rows: readonly (readonly CsvValue[])[], newline: '\r\n' | '\n' = '\r\n'): string {
+  return [header, ...rows].map(row => row.map(csvCell).join(',')).join(newline) + newline
 }

@@ -28,6 +28,7 @@ import * as m0030 from './0030-fill-snapshots'
 import * as m0031 from './0031-training-latest-passes'
 import * as m0032 from './0032-csv-cell'
 import * as m0033 from './0033-latest-pass-user'
+import * as m0034 from './0034-csv-field'
 
 export const migrations = [
   { name: '0001-foundation', ...m0001 },
@@ -59,4 +60,5 @@ export const migrations = [
   { name: '0031-training-latest-passes', ...m0031 },
   { name: '0032-csv-cell', ...m0032 },
   { name: '0033-latest-pass-user', ...m0033 },
+  { name: '0034-csv-field', ...m0034 },
 ]

@@ -12,7 +12,7 @@ import { latestTrainingSql, proofSql } from './sources'
  * last events with fills by the tier each fill was made at (the filler's highest valid tier).
  */
 export async function deskCharts(actor: Actor): Promise<DeskChartsDto> {
-  const ctx = await deskContext(actor)
+  const ctx = await deskContext(actor, { policy: true })
   const until = addCalendarDays(ctx.today, DESK_CHART_WEEKS * 7 - 1)
   const db = useDb()
   const replacements = { ...ctx.replacements, until, events: DESK_CHART_EVENTS }

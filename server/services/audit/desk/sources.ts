@@ -3,7 +3,7 @@ import { GAUGE_STATES, gaugeCurrentThrough, gaugeState } from '#shared/utils/eve
 import type { DeskTable } from '#shared/utils/audit-desk'
 import { tallyStandingSql } from '../../vessels'
 import { VESSEL_CONSTRUCTIONS } from '#shared/utils/vessel-arithmetic'
-import type { DeskContext } from './context'
+import { deskPolicy, type DeskContext } from './context'
 
 /**
  * Where each desk table's rows come from. A SQL source is one SELECT whose columns are the table's
@@ -13,7 +13,7 @@ import type { DeskContext } from './context'
  * the club's few stations make that cheap). The proof standing comes from the stored proof tally.
  */
 export type DeskSource
-  = | { kind: 'sql', sql: (ctx: DeskContext) => string }
+  = | { kind: 'sql', sql: (ctx: DeskContext) => string, /** Reads the club's vessel policy (its context must carry it). */ policy?: true }
     | { kind: 'computed', rows: (ctx: DeskContext) => Promise<DeskSourceRow[]> }
 
 /** One row as a source gives it. */
@@ -65,16 +65,17 @@ export function latestTrainingSql(fitTests: boolean | null, until = ':d90') {
  * JOINs on keys, which the planner leaves out when nothing reads them).
  */
 export function proofSql(ctx: DeskContext, until: string): string {
-  const smallestLimit = Math.min(ctx.policy.fillLimit.bottle, ctx.policy.fillLimit.laminate)
+  const policy = deskPolicy(ctx)
+  const smallestLimit = Math.min(policy.fillLimit.bottle, policy.fillLimit.laminate)
   const byTime = VESSEL_CONSTRUCTIONS.map(c => `(t.construction = '${c}' AND t.last_pass_on <= `
-    + `(CAST(${until} AS date) - make_interval(months => ${Number(ctx.policy.intervalMonths[c])}))::date + 3)`).join(' OR ')
+    + `(CAST(${until} AS date) - make_interval(months => ${Number(policy.intervalMonths[c])}))::date + 3)`).join(' OR ')
   return `
     SELECT t.vessel_id AS id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
            v.tag AS "vessel", v.name AS "name", u.name AS "owner", ts.valid_through::text AS "validThrough",
            t.fills_since_pass AS "fillsSinceProof", ts.fills_remaining AS "fillsRemaining",
            v.tag || ' ' || v.name || ' ' || u.name AS search, CASE WHEN ts.lapsed THEN 'lapsed' ELSE 'lapsing' END AS state,
            CASE WHEN ts.lapsed THEN NULL ELSE ts.valid_through::text END AS due_on
-      FROM vessel_proof_tallies t ${tallyStandingSql(ctx.policy, { today: ':today' })}
+      FROM vessel_proof_tallies t ${tallyStandingSql(policy, { today: ':today' })}
       LEFT JOIN vessels v ON v.id = t.vessel_id LEFT JOIN memberships m ON m.id = v.owner_membership_id LEFT JOIN users u ON u.id = m.user_id
      WHERE t.club_id = :clubId AND t.in_service AND (ts.lapsed OR ts.valid_through <= CAST(${until} AS date))
        AND (${byTime} OR t.fills_since_pass >= ${smallestLimit} OR t.ends_on <= CAST(:today AS date))`
@@ -119,7 +120,7 @@ export const DESK_SOURCES: Record<DeskTable, DeskSource> = {
        AND (t.suspended_at > lf.created_at OR (t.suspended_at IS NULL AND t.expires_on >= lf.held_on))
        AND coalesce((SELECT max(c.rank) FROM member_tiers c WHERE c.membership_id = t.membership_id AND c.id <> t.id
                       AND c.confirmed_at IS NOT NULL AND c.suspended_at IS NULL AND c.revoked_at IS NULL AND c.expires_on >= CAST(:today AS date)), -1) < t.rank` },
-  'proofs': { kind: 'sql', sql: ctx => proofSql(ctx, ':d90') },
+  'proofs': { kind: 'sql', sql: ctx => proofSql(ctx, ':d90'), policy: true },
   'vessels-held': { kind: 'sql', sql: () => `
     SELECT v.id, 'vessel' AS link_kind, v.tag AS link_id, v.tag AS link_label,
            v.tag AS "vessel", v.name AS "name", u.name AS "owner", to_char(v.updated_at AT TIME ZONE :tz, 'YYYY-MM-DD') AS "since",

@@ -13,6 +13,12 @@ export function deskColumns(table: DeskTable, officer: boolean): DeskColumn[] {
   return DESK_TABLE_INFO[table].columns.filter(c => officer || !(OFFICER_ONLY_COLUMNS as readonly string[]).includes(c.key))
 }
 
+/** The context a query of `table` needs: with the vessel policy only when its source reads it. */
+function tableContext(actor: Actor, table: DeskTable): Promise<DeskContext> {
+  const source = DESK_SOURCES[table]
+  return deskContext(actor, { policy: source.kind === 'sql' && source.policy === true })
+}
+
 /** The sort, state and window a query asks of `table`, checked: 400 for a column or standing the table has not. */
 function checkedQuery(table: DeskTable, query: DeskQuery) {
   const info = DESK_TABLE_INFO[table]
@@ -89,7 +95,7 @@ function sqlSelection(ctx: DeskContext, q: { sort: string, dir: 'asc' | 'desc', 
  * (the count in a window function), a computed one from its source.
  */
 export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQuery): Promise<DeskPageDto> {
-  const ctx = await deskContext(actor)
+  const ctx = await tableContext(actor, table)
   const q = checkedQuery(table, query)
   const columns = deskColumns(table, ctx.officer)
   const source = DESK_SOURCES[table]
@@ -111,34 +117,34 @@ export async function deskTablePage(actor: Actor, table: DeskTable, query: DeskQ
 
 /**
  * Desk table `table` as CSV: a header of column keys, then one line per row the filter selects, with
- * its link, in the page's order. A SQL table's lines are written by PostgreSQL in the same query
- * (`csv_cell`, migration 0032, the twin of the shared `csvCell`), so thousands of rows cost the server
- * one string instead of an object each; a computed table's go through the shared writer.
+ * its link, in the page's order, each line ending in `\n`. A SQL table's lines are written by
+ * PostgreSQL's COPY (`copyCsv`, with `csv_field` on every cell: migration 0034, tested against the
+ * shared `csvCell`), so thousands of rows cost the server neither a parsed row nor a string; a
+ * computed table's go through the shared writer with the same line ending.
  */
-export async function deskTableCsv(actor: Actor, table: DeskTable, query: DeskQuery): Promise<string> {
-  const ctx = await deskContext(actor)
+export async function deskTableCsv(actor: Actor, table: DeskTable, query: DeskQuery): Promise<Buffer> {
+  const ctx = await tableContext(actor, table)
   const q = checkedQuery(table, query)
   const columns = deskColumns(table, ctx.officer)
   const header = [...columns.map(c => c.key), 'link']
   const source = DESK_SOURCES[table]
   if (source.kind === 'computed') {
     const { rows } = pageComputed(await source.rows(ctx), q, query, ctx, true)
-    return toCsv(header, rows.map(r => toRow(table, r, columns)).map(r => [...columns.map(c => r.cells[c.key] ?? null), r.link.to]))
+    return Buffer.from(toCsv(header, rows.map(r => toRow(table, r, columns)).map(r => [...columns.map(c => r.cells[c.key] ?? null), r.link.to]), '\n'))
   }
   const { where, order, replacements } = sqlSelection(ctx, q, query)
   const cells = columns.map(c => c.key === 'state' || c.key === 'kind'
-    ? 'csv_cell(coalesce(CAST(:stateWords AS jsonb) ->> t.state, t.state))'
-    : `csv_cell(t."${c.key}")`)
+    ? 'csv_field(coalesce(CAST(:stateWords AS jsonb) ->> t.state, t.state))'
+    : `csv_field(t."${c.key}")`)
   // A link is a path and an id or tag: nothing in it needs quoting or defusing.
   const link = `CASE t.link_kind ${Object.entries(LINK_PATHS).map(([kind, l]) =>
     `WHEN '${kind}' THEN '${l.path}'${l.withId ? ' || t.link_id' : ''}`).join(' ')} END`
   // OFFSET 0 keeps the source a subquery, so each of its columns is computed once per row: inlined,
-  // csv_cell would otherwise repeat a computed column's expression (a proof's standing) in each test.
-  const [written] = await useDb().query<{ lines: string | null }>(
-    `SELECT string_agg(${[...cells, link].join(` || ',' || `)}, E'\\r\\n' ORDER BY ${order}) AS lines
-       FROM (SELECT * FROM (${source.sql(ctx)}) s OFFSET 0) t WHERE ${where}`,
-    { replacements: { ...replacements, stateWords: JSON.stringify(DESK_TABLE_INFO[table].states) }, type: QueryTypes.SELECT })
-  return `${header.join(',')}\r\n${written?.lines ? `${written.lines}\r\n` : ''}`
+  // csv_field would otherwise repeat a computed column's expression (a proof's standing) in each test.
+  const lines = await copyCsv(
+    `SELECT ${[...cells, link].join(', ')} FROM (SELECT * FROM (${source.sql(ctx)}) s OFFSET 0) t WHERE ${where} ORDER BY ${order}`,
+    { ...replacements, stateWords: JSON.stringify(DESK_TABLE_INFO[table].states) })
+  return Buffer.concat([Buffer.from(`${header.join(',')}\n`), lines])
 }
 
 /** The count of a computed table, from its rows. */
@@ -182,7 +188,7 @@ async function countSqlTables(ctx: DeskContext, tables: DeskTable[]): Promise<De
 
 /** The desk's counts: the SQL tables in one statement (one aggregate each), the computed ones from their rows. */
 export async function deskCounts(actor: Actor): Promise<DeskCountsDto> {
-  const ctx = await deskContext(actor)
+  const ctx = await deskContext(actor, { policy: true })
   const sqlTables = DESK_TABLES.filter(t => DESK_SOURCES[t].kind === 'sql')
   const [counted, computed] = await Promise.all([
     countSqlTables(ctx, sqlTables),
