@@ -1,4 +1,5 @@
 import type { MigrationFn } from '../migrator'
+import { up as upCsvCell } from './0032-csv-cell'
 
 /**
  * `csv_field(value)`: a value made ready for PostgreSQL's own CSV writer (`COPY … TO STDOUT (FORMAT
@@ -30,20 +31,10 @@ export const up: MigrationFn = async ({ context: sequelize }) => {
   `)
 }
 
-export const down: MigrationFn = async ({ context: sequelize }) => {
-  await sequelize.query(`
-    CREATE FUNCTION csv_cell(value text) RETURNS text LANGUAGE sql IMMUTABLE PARALLEL SAFE AS $$
-      SELECT CASE WHEN value !~ '^[=+@\\t\\r-]|[",\\n\\r]' THEN value
-                  WHEN value IS NULL THEN ''
-                  WHEN value ~ '[",\\n\\r]' THEN '"' || replace(CASE WHEN value ~ '^[=+@\\t\\r-]' THEN '''' || value ELSE value END, '"', '""') || '"'
-                  ELSE '''' || value END
-    $$;
-    CREATE FUNCTION csv_cell(value integer) RETURNS text LANGUAGE sql IMMUTABLE PARALLEL SAFE AS $$
-      SELECT CASE WHEN value IS NULL THEN '' ELSE value::text END
-    $$;
-    CREATE FUNCTION csv_cell(value numeric) RETURNS text LANGUAGE sql IMMUTABLE PARALLEL SAFE AS $$
-      SELECT CASE WHEN value IS NULL OR value = 'NaN' THEN '' ELSE value::text END
-    $$;
+/** Back to migration 0032: its `csv_cell` functions made again, these dropped. */
+export const down: MigrationFn = async (params) => {
+  await upCsvCell(params)
+  await params.context.query(`
     DROP FUNCTION IF EXISTS csv_field(numeric);
     DROP FUNCTION IF EXISTS csv_field(integer);
     DROP FUNCTION IF EXISTS csv_field(text);
