@@ -214,6 +214,15 @@ describe('the desk CSV', () => {
     const rows = parseCsv(res.body).slice(1)
     expect(rows.map(r => r[0])).toEqual(['Ada Twentyday'])
   })
+
+  // COPY takes no bind parameters, so the search is inlined as an escaped literal: text that looks like
+  // a replacement, a quote, a backslash or a dollar quote is searched for, never run.
+  it.each([[':clubId'], ['\'; DROP TABLE users; --'], ['\\'], ['$$'], ['Twenty']])('searches for %j as text', async (q) => {
+    const res = await api<string>('/api/audit/desk/tiers-expiring/export', { as: as.safety, query: { q } })
+    expect(res.status).toBe(200)
+    const rows = parseCsv(res.body).slice(1)
+    expect(rows.map(r => r[0])).toEqual(q === 'Twenty' ? ['Ada Twentyday'] : [])
+  })
 })
 
 describe('the desk charts', () => {
